@@ -1,0 +1,1 @@
+"""The harness: case files, running both sides, metrics, convergence, verdicts, reports, CLI."""

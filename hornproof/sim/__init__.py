@@ -1,0 +1,1 @@
+"""Everything that touches Meep. Imports ``analytic`` for geometry only, never ``compare``."""
