@@ -1,0 +1,143 @@
+"""The ``hornproof`` command line.
+
+One module per subcommand does the work; this module only parses arguments, dispatches,
+and turns the user-facing errors (``hornproof.errors``) into one line and an exit status:
+0 ok · 1 a check or regression failed · 2 bad input · 3 the run failed.
+Anything else is a bug and keeps its traceback.
+"""
+
+import argparse
+import sys
+
+from .. import __version__
+from ..errors import HornproofError, InputError
+
+DESCRIPTION = """\
+How far do closed-form rectangular-horn formulas hold for your horn? hornproof reads a case
+file (mm, GHz), evaluates the quadratic-phase (Fresnel) model and an exact-phase aperture model,
+runs a CPU-only full-wave FDTD model with Meep, and compares them with numerical uncertainty.
+
+Results are a design aid, not a substitute for measurement. RF exposure near an energised horn
+can exceed safe limits: follow IEEE C95.1-2019 / ICNIRP (2020), local regulations and licensed
+practice."""
+
+
+def _cells_list(text):
+    try:
+        values = [float(v) for v in text.split(",") if v.strip()]
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"expected numbers separated by commas, got {text!r}")
+    if not values or any(v < 4 for v in values):
+        raise argparse.ArgumentTypeError("cells per wavelength must be numbers >= 4")
+    return values
+
+
+def build_parser():
+    parser = argparse.ArgumentParser(
+        prog="hornproof", description=DESCRIPTION, formatter_class=argparse.RawDescriptionHelpFormatter
+    )
+    parser.add_argument("--version", action="version", version=f"hornproof {__version__}")
+    parser.add_argument("--debug", action="store_true", help="show tracebacks for every error")
+    sub = parser.add_subparsers(dest="command", metavar="COMMAND")
+
+    p = sub.add_parser("predict", help="closed-form and exact-phase models only (instant)")
+    p.add_argument("case", help="case file (.toml)")
+    p.add_argument("--json", action="store_true", help="print the hornproof.result/1 summary on stdout")
+    p.add_argument("--equivalent", choices=("huygens", "e-field"), default="huygens",
+                   help="aperture equivalent for the patterns (default: huygens)")
+
+    p = sub.add_parser("simulate", help="FDTD model only (Meep); writes fields.h5, result.json, s11.s1p")
+    p.add_argument("case")
+    p.add_argument("--cells-per-wavelength", type=_cells_list, metavar="N",
+                   help="grid density at f_max (default: the finest of the case's ladder)")
+    p.add_argument("--out", metavar="DIR", help="output folder (default: results/<case>/<hash>)")
+    p.add_argument("--json", action="store_true")
+    p.add_argument("--force", action="store_true", help="run even if the estimate exceeds free memory")
+    p.add_argument("--image", action="store_true", help="also write model.png (two cuts through the axis)")
+
+    p = sub.add_parser("verify", help="the main job: models + FDTD ladder, compared, with verdict and report")
+    p.add_argument("case")
+    p.add_argument("--cells-per-wavelength", type=_cells_list, metavar="N1,N2,N3",
+                   help="convergence ladder, overrides the case (e.g. 16,20,24)")
+    p.add_argument("--out", metavar="DIR", help="output folder (default: results/<case>/<hash>)")
+    p.add_argument("--json", action="store_true")
+    p.add_argument("--force", action="store_true", help="run even if the estimate exceeds free memory")
+
+    p = sub.add_parser("sweep", help="model error vs one horn parameter; breakdown threshold")
+    p.add_argument("case", help="case file with a [sweep] table")
+    p.add_argument("--out", metavar="DIR", help="output folder (default: results/<case>-sweep)")
+    p.add_argument("--dims", type=int, choices=(2, 3), help="override the sweep's model dimension")
+    p.add_argument("--cells-per-wavelength", type=_cells_list, metavar="N[,N2]",
+                   help="one value, or two for a two-grid uncertainty at every point")
+    p.add_argument("--analytic-only", action="store_true", help="skip FDTD (both analytic models only)")
+    p.add_argument("--json", action="store_true")
+    p.add_argument("--force", action="store_true")
+
+    p = sub.add_parser("regress", help="nightly suite against stored baselines (JUnit XML)")
+    try:
+        from .regress import add_regress_arguments
+    except ImportError:  # pragma: no cover - during development only
+        add_regress_arguments = None
+    if add_regress_arguments is not None:
+        add_regress_arguments(p)
+
+    p = sub.add_parser("design", help="optimum horn sizing (analytic)")
+    from .design_command import add_design_arguments
+
+    add_design_arguments(p)
+
+    p = sub.add_parser("report", help="rebuild report.html from a stored result folder")
+    p.add_argument("result_dir", help="a folder holding result.json (from verify or sweep)")
+    return parser
+
+
+def dispatch(args):
+    if args.command == "predict":
+        from .predict_command import predict_command
+
+        return predict_command(args)
+    if args.command == "simulate":
+        from .simulate_command import simulate_command
+
+        return simulate_command(args)
+    if args.command == "verify":
+        from .verify import verify_command
+
+        return verify_command(args)
+    if args.command == "sweep":
+        from .sweep import sweep_command
+
+        return sweep_command(args)
+    if args.command == "regress":
+        from .regress import regress_command
+
+        return regress_command(args)
+    if args.command == "design":
+        from .design_command import design_command
+
+        return design_command(args)
+    if args.command == "report":
+        from .report_command import report_command
+
+        return report_command(args)
+    raise InputError("no command given: try 'hornproof --help'")
+
+
+def main(argv=None):
+    parser = build_parser()
+    args = parser.parse_args(argv)
+    try:
+        return dispatch(args) or 0
+    except HornproofError as error:
+        if args.debug:
+            raise
+        message = str(error).splitlines()[0] if str(error) else type(error).__name__
+        print(f"hornproof: error: {message}", file=sys.stderr)
+        return error.exit_code
+    except KeyboardInterrupt:
+        print("hornproof: interrupted", file=sys.stderr)
+        return 130
+
+
+if __name__ == "__main__":  # pragma: no cover
+    sys.exit(main())

@@ -1,0 +1,68 @@
+"""Building the ``hornproof.result/1`` summary (result.json) from a case and model results.
+
+Every list is aligned with ``frequencies_ghz``. Keys may be added; existing keys are never
+renamed without a schema bump.
+"""
+
+import datetime
+import json
+import math
+
+import numpy as np
+
+from .. import __version__
+
+SCHEMA = "hornproof.result/1"
+
+SAFETY_NOTE = (
+    "Design aid only, not a substitute for measurement. RF exposure near an energised horn can "
+    "exceed safe limits: observe IEEE C95.1-2019 and ICNIRP (2020) limits, local regulations "
+    "and licensed practice."
+)
+
+
+def jsonable(value):
+    """Recursively convert numpy scalars/arrays to plain Python; NaN and inf become None."""
+    if isinstance(value, dict):
+        return {str(k): jsonable(v) for k, v in value.items()}
+    if isinstance(value, (list, tuple)):
+        return [jsonable(v) for v in value]
+    if isinstance(value, np.ndarray):
+        return [jsonable(v) for v in value.tolist()]
+    if isinstance(value, (np.floating, float)):
+        value = float(value)
+        return value if math.isfinite(value) else None
+    if isinstance(value, np.integer):
+        return int(value)
+    if isinstance(value, np.bool_):
+        return bool(value)
+    return value
+
+
+def base_summary(case):
+    """The case-describing part of a result summary: identity, band, geometry."""
+    freqs = np.asarray(case.frequencies, dtype=float)
+    centre = float(np.sqrt(freqs.min() * freqs.max()))
+    horn = case.horn
+    geometry = horn.summary(centre)
+    geometry["phase_error_h_wl_per_frequency"] = jsonable(horn.phase_error_h(freqs))
+    geometry["phase_error_e_wl_per_frequency"] = jsonable(horn.phase_error_e(freqs))
+    return {
+        "schema": SCHEMA,
+        "case": case.name,
+        "case_file": str(case.path),
+        "case_sha256": case.sha256,
+        "title": case.title,
+        "dims": int(case.fdtd.dims),
+        "frequencies_ghz": jsonable(freqs / 1e9),
+        "geometry": jsonable(geometry),
+        "models": {},
+        "hornproof_version": __version__,
+        "created_utc": datetime.datetime.now(datetime.timezone.utc).isoformat(timespec="seconds"),
+        "warnings": list(case.warnings),
+        "safety": SAFETY_NOTE,
+    }
+
+
+def dumps(summary):
+    return json.dumps(jsonable(summary), indent=1, sort_keys=False, allow_nan=False) + "\n"
