@@ -120,7 +120,7 @@ def write_s1p(path, frequencies, s11, *, case_name, solver_version, version=1,
         f"! case: {_clean_comment(case_name)}",
         f"! solver: {_clean_comment(solver_version)}",
         f"! created: {created.isoformat(timespec='seconds')}",
-        f"! {REFERENCE_NOTE};",
+        f"! {REFERENCE_NOTE}",
         "! S11 is the TE10 mode reflection (backward/forward wave); do not renormalise to R.",
     ]
     lines += [f"! {_clean_comment(c)}" for c in comments]

@@ -1,0 +1,149 @@
+"""Resource estimate: grid counts and time steps against Meep itself, memory against a
+fresh Meep process's peak RSS, MemAvailable against the kernel's own totals."""
+
+import json
+import math
+import os
+import subprocess
+import sys
+
+import pytest
+
+from hornproof.errors import RunError
+from hornproof.sim.estimate import (
+    DEFAULT_STEPPING_RATE,
+    ResourceEstimate,
+    available_memory_bytes,
+    check_fits,
+    courant_timesteps,
+    estimate_resources,
+    stepping_rate,
+)
+from hornproof.units import SPEED_OF_LIGHT
+
+
+def test_cells_and_pml_cells_by_hand():
+    # 0.1 × 0.06 × 0.08 m at 250 cells/m: 25 × 15 × 20 cells; PML 0.008 m = 2 cells a side
+    # leaves 21 × 11 × 16 inside (arithmetic)
+    estimate = estimate_resources((0.1, 0.06, 0.08), 250.0, 3, 0, 0, 1, 0,
+                                  pml_thickness_m=0.008)
+    assert estimate.cells == 25 * 15 * 20
+    assert estimate.pml_cells == 25 * 15 * 20 - 21 * 11 * 16
+    two_mirrors = estimate_resources((0.1, 0.06, 0.08), 250.0, 3, 0, 0, 4, 0)
+    assert two_mirrors.cells == math.ceil(25 * 15 * 20 / 4)
+    flat = estimate_resources((0.1, 0.06, 123.0), 250.0, 2, 0, 0, 1, 0)
+    assert flat.cells == 25 * 15  # z ignored in 2D
+
+
+@pytest.mark.parametrize("bad", [dict(dims=1), dict(resolution_cells_per_m=0),
+                                 dict(symmetry_factor=0.5), dict(cell_size_xyz_m=(0.1, -1, 1))])
+def test_bad_arguments_name_the_parameter(bad):
+    arguments = dict(cell_size_xyz_m=(0.1, 0.1, 0.1), resolution_cells_per_m=100, dims=3,
+                     n_frequencies=1, n_farfield_points_or_surface_cells=0, symmetry_factor=1,
+                     steps=10)
+    arguments.update(bad)
+    with pytest.raises(ValueError, match=next(iter(bad))):
+        estimate_resources(**arguments)
+
+
+def test_courant_step_by_hand():
+    # dt = S·Δx/c (Courant condition, S = 0.5 is Meep's default): Δx = 1 mm → dt = 1.668 ps;
+    # 1 ns of simulated time is 599.6 → 600 steps
+    assert courant_timesteps(1e-9, 1000.0) == math.ceil(1e-9 / (0.5 * 1e-3 / SPEED_OF_LIGHT))
+    assert courant_timesteps(1e-9, 1000.0) == 600
+
+
+def test_check_fits_refuses_too_big_unless_forced():
+    estimate = ResourceEstimate(cells=10, memory_bytes=30 * 2**30, timesteps=1, seconds=1.0)
+    with pytest.raises(RunError, match=r"needs 30\.0 GiB, 2\.0 GiB available; use --force"):
+        check_fits(estimate, available=2 * 2**30)
+    assert RunError.exit_code == 3  # the command-line contract: 3 = the run failed
+    assert check_fits(estimate, force=True, available=2 * 2**30) == 2 * 2**30
+    assert check_fits(estimate, available=64 * 2**30) == 64 * 2**30
+
+
+@pytest.mark.skipif(not os.path.exists("/proc/meminfo"), reason="Linux only")
+def test_mem_available_is_within_physical_memory():
+    # Linux proc(5): MemAvailable is an estimate of memory available without swapping, so it
+    # lies between 0 and the physical memory (sysconf _SC_PHYS_PAGES · _SC_PAGE_SIZE).
+    available = available_memory_bytes()
+    physical = os.sysconf("SC_PHYS_PAGES") * os.sysconf("SC_PAGE_SIZE")
+    assert 0 < available <= physical
+
+
+def test_meminfo_parsing(tmp_path):
+    # proc(5) format: "MemAvailable:   12345 kB" (kB means KiB there)
+    meminfo = tmp_path / "meminfo"
+    meminfo.write_text("MemTotal:  100 kB\nMemFree: 10 kB\nMemAvailable:   2048 kB\n")
+    assert available_memory_bytes(str(meminfo)) == 2048 * 1024
+    assert available_memory_bytes(str(tmp_path / "absent")) is None
+
+
+def test_stepping_rate_cache(tmp_path):
+    cache = tmp_path / "rate.json"
+    assert stepping_rate(str(cache)) == DEFAULT_STEPPING_RATE
+    cache.write_text("{corrupt")
+    assert stepping_rate(str(cache)) == DEFAULT_STEPPING_RATE
+    cache.write_text(json.dumps({"cell_steps_per_second": 1.5e7}))
+    assert stepping_rate(str(cache)) == 1.5e7
+
+
+# --- against Meep -------------------------------------------------------------------------------
+PROBE = r"""
+import json, resource, sys, time
+import meep as mp
+mp.verbosity(0)
+size, res, pml, nf, until = json.loads(sys.argv[1])
+sim = mp.Simulation(cell_size=mp.Vector3(*size), resolution=res, boundary_layers=[mp.PML(pml)],
+                    sources=[mp.Source(mp.GaussianSource(1.0, fwidth=0.5), component=mp.Ey,
+                                       center=mp.Vector3())])
+sim.init_sim()
+h = [s - 2 * pml - 0.2 for s in size]
+surface = 0
+if nf:
+    regions = []
+    for axis in range(3):
+        for sign in (1, -1):
+            c = [0, 0, 0]; c[axis] = sign * h[axis] / 2
+            sz = list(h); sz[axis] = 0
+            regions.append(mp.Near2FarRegion(center=mp.Vector3(*c), size=mp.Vector3(*sz), weight=sign))
+            face = [round(x * res) for i, x in enumerate(h) if i != axis]
+            surface += face[0] * face[1]
+    sim.add_near2far(1.0, 0.4, nf, *regions)
+sim.run(until=until)
+gv = sim.fields.gv
+print(json.dumps({"grid": [gv.nx(), gv.ny(), gv.nz()], "dt": sim.fields.dt,
+                  "steps": round(sim.meep_time() / sim.fields.dt), "surface": surface,
+                  "rss": resource.getrusage(resource.RUSAGE_SELF).ru_maxrss * 1024}))
+"""
+
+
+def _probe(size, res, pml, nf, until):
+    out = subprocess.run([sys.executable, "-c", PROBE, json.dumps([size, res, pml, nf, until])],
+                         capture_output=True, text=True, timeout=120, check=True).stdout
+    # Meep prints "Elapsed run time" at exit even at verbosity 0: take our JSON line
+    return json.loads(next(line for line in out.splitlines() if line.startswith("{")))
+
+
+@pytest.mark.fullwave
+def test_grid_and_steps_match_meep():
+    # Meep units: length unit 1 m here, so resolution is cells per metre and time unit 1 m/c
+    size, res = (1.3, 0.9, 1.1), 20
+    measured = _probe(size, res, 0.2, 0, 2.0)
+    estimate = estimate_resources(size, res, 3, 0, 0, 1, 0, pml_thickness_m=0.2)
+    assert estimate.cells == math.prod(measured["grid"])
+    # Meep: dt = Courant / resolution with Courant 0.5 (Meep's documented default)
+    assert measured["dt"] == pytest.approx(0.5 / res, rel=1e-12)
+    assert courant_timesteps(2.0 / SPEED_OF_LIGHT, res) == measured["steps"]
+
+
+@pytest.mark.fullwave
+def test_memory_estimate_against_meep_peak_rss():
+    # A cell shape and size not among the calibration runs, with PML and a near-to-far box.
+    # Tolerance 20 %: the calibration fit's worst residual was 7 %; page-allocation noise
+    # and library versions add more.
+    size, res, pml, nf = (3.4, 2.6, 3.0), 24, 0.5, 20
+    measured = _probe(size, res, pml, nf, 0.2)
+    estimate = estimate_resources(size, res, 3, nf, measured["surface"], 1, 0,
+                                  pml_thickness_m=pml)
+    assert estimate.memory_bytes == pytest.approx(measured["rss"], rel=0.20)
