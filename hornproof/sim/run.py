@@ -1,0 +1,352 @@
+"""The full-wave run: ``simulate(horn, frequencies, settings, cells_per_wavelength)``.
+
+One broadband Gaussian pulse covers the band; every band frequency is taken from the DFT
+monitors of the same run, which stops once the DFT fields have settled
+(``stop_when_dft_decayed`` with ``settings.decay_by``) or at the cap
+``settings.max_time_periods`` (then ``RunError``).
+
+Figures returned (per band frequency):
+
+* directivity D = 4π U / P_rad, P_rad the power through the closed near-to-far box;
+* gain G = 4π U / P_accepted with P_accepted = P_inc − P_refl, the net power the feed guide
+  carries towards the horn (G = D for PEC walls, up to the power-balance error);
+* realized gain 4π U / P_inc = G (1 − |S11|²);
+* S11 at the throat plane (z = 0) and VSWR;
+* co- and cross-polar principal-plane cuts (Ludwig's third definition, E along y).
+
+In 2D (``settings.dims == 2``, sectoral horns) the flared plane alone is modelled and the
+directivity is the 2D one, D₂ = 2π U′ / P′ per unit length. What the 2D model leaves out:
+the H-plane model (E out of plane) is a parallel-plate horn of infinite height — it has the
+TE10 cutoff and guide wavelength right but no E-plane aperture, no E-plane edge diffraction
+and no fields leaking round the narrow walls; the E-plane model (E in plane) carries a TEM
+wave between infinite plates, so it misses the TE10 dispersion (guide wavelength, wave
+impedance, cutoff) and the cos(πx/a) taper of the H-plane. Neither gives a 3D directivity.
+"""
+
+import time
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from ..errors import RunError
+from ..units import SPEED_OF_LIGHT, db10, db20
+from . import farfield as ff
+from . import feed as fd
+from . import model as md
+from .cut_metrics import cut_figures
+
+#: bytes of memory per grid cell (fields, PML auxiliaries, material) — a rough planning figure
+BYTES_PER_CELL = 120.0
+#: refuse (unless forced) runs needing more than this much memory
+MEMORY_LIMIT_BYTES = 16 * 2**30
+
+
+@dataclass
+class SimResult:
+    """One FDTD run over the band, in the ModelResult shape (name ``"fdtd"``) plus run metadata.
+
+    Arrays [nf] unless stated; cuts [nf, nθ] in dBi (dB of D₂ for dims = 2), NaN where a 2D
+    model has no such plane. ``run`` holds the metadata (see ``simulate``). ``full_pattern``
+    is None or a dict with ``theta_deg``, ``phi_deg`` and ``directivity_dbi`` [nf, nθ, nφ].
+    """
+
+    name: str
+    dims: int
+    frequencies: np.ndarray
+    theta_deg: np.ndarray
+    h_plane_dbi: np.ndarray
+    e_plane_dbi: np.ndarray
+    directivity_dbi: np.ndarray
+    hpbw_h_deg: np.ndarray
+    hpbw_e_deg: np.ndarray
+    first_null_h_deg: np.ndarray
+    first_null_e_deg: np.ndarray
+    sll_h_db: np.ndarray
+    sll_e_db: np.ndarray
+    extra: dict = field(default_factory=dict)
+    run: dict = field(default_factory=dict)
+    full_pattern: dict = None
+
+    MODEL_FIELDS = ("name", "dims", "frequencies", "theta_deg", "h_plane_dbi", "e_plane_dbi",
+                    "directivity_dbi", "hpbw_h_deg", "hpbw_e_deg", "first_null_h_deg",
+                    "first_null_e_deg", "sll_h_db", "sll_e_db", "extra")
+
+    def to_model_result(self):
+        """The same figures as ``hornproof.analytic.model_result.ModelResult`` (when it exists)."""
+        from ..analytic.model_result import ModelResult
+
+        return ModelResult(**{k: getattr(self, k) for k in self.MODEL_FIELDS})
+
+
+def _cut_metrics(theta_deg, cuts_db):
+    """HPBW, first null, sidelobe level per frequency; analytic.pattern_metrics when present."""
+    try:
+        from ..analytic import pattern_metrics
+    except ImportError:
+        pattern_metrics = None
+    hpbw, null, sll = [], [], []
+    for cut in cuts_db:
+        figures = None
+        if pattern_metrics is not None and hasattr(pattern_metrics, "cut_figures"):
+            figures = pattern_metrics.cut_figures(theta_deg, cut)
+        if figures is None:
+            figures = cut_figures(theta_deg, cut)
+        hpbw.append(figures[0])
+        null.append(figures[1])
+        sll.append(figures[2])
+    return np.array(hpbw, dtype=float), np.array(null, dtype=float), np.array(sll, dtype=float)
+
+
+def estimated_cells(layout, use_symmetry=True):
+    """Grid cells of the model (after the mirror planes, which Meep exploits)."""
+    cells = float(np.prod([s * layout.resolution for s in layout.cell_size]))
+    if use_symmetry:
+        cells /= 2 ** (2 if layout.dims == 3 else 1)
+    return cells
+
+
+def _source_band(meep_frequencies):
+    f_lo, f_hi = float(np.min(meep_frequencies)), float(np.max(meep_frequencies))
+    centre = 0.5 * (f_lo + f_hi)
+    width = max(1.5 * (f_hi - f_lo), 0.25 * centre)
+    return centre, width
+
+
+def _stop_condition(settings, layout, source_end, f_min_meep, component, probe, progress, state):
+    """DFT-convergence stop with a time cap, a divergence check and progress reports."""
+    import meep as mp
+
+    transit = sum(layout.cell_size)
+    minimum = source_end + transit
+    cap = minimum + settings.max_time_periods / f_min_meep
+    state["time_cap"] = cap
+    decayed = mp.stop_when_dft_decayed(tol=settings.decay_by, minimum_run_time=minimum, maximum_run_time=cap)
+
+    def until(sim):
+        state["steps"] += 1
+        if state["steps"] % 200 == 0:
+            value = sim.get_field_point(component, probe)
+            if not np.isfinite(value) or abs(value) > 1e30:
+                raise RunError(f"the FDTD run diverged (field {value!r} at t = {sim.meep_time():.4g})")
+            if progress is not None:
+                progress({"stage": "stepping", "meep_time": sim.meep_time(), "time_cap": cap,
+                          "elapsed_s": time.monotonic() - state["t0"]})
+        return decayed(sim)
+
+    return until
+
+
+def simulate(horn, frequencies, settings, cells_per_wavelength, *, progress=None, force=False):
+    """Build and run the Meep model of ``horn`` over ``frequencies`` (Hz).
+
+    Parameters
+    ----------
+    horn : HornGeometry
+    frequencies : array of float
+        Band frequencies, Hz; all above the TE10 cutoff of the feed guide.
+    settings : FdtdSettings
+    cells_per_wavelength : float
+        Grid density at the top band frequency.
+    progress : callable or None
+        Called now and then with a dict: ``stage``, ``meep_time``, ``time_cap``, ``elapsed_s``.
+    force : bool
+        Run even when the memory estimate exceeds ``MEMORY_LIMIT_BYTES``.
+
+    Returns
+    -------
+    SimResult
+        ``run`` metadata: wall_thickness_modelled_m, wall_thickness_requested_m,
+        cells_per_wavelength, resolution_cells_per_m, grid_step_m, cell_size_m, grid_cells,
+        seconds_total, seconds_stepping, meep_version, symmetry, timesteps, meep_time,
+        time_cap, mpi_processes, cells_across_guide_b, layout (dict).
+    """
+    t_start = time.monotonic()
+    frequencies = np.atleast_1d(np.asarray(frequencies, dtype=float))
+    layout = md.plan_layout(horn, frequencies, settings, cells_per_wavelength)
+    cells = estimated_cells(layout, settings.use_symmetry)
+    if cells * BYTES_PER_CELL > MEMORY_LIMIT_BYTES and not force:
+        raise RunError(f"the model needs about {cells * BYTES_PER_CELL / 2**30:.1f} GiB "
+                       f"({cells:.3g} cells); lower cells_per_wavelength or force the run")
+    try:
+        import meep as mp
+    except ImportError as exc:  # pragma: no cover - depends on the machine
+        raise RunError("Meep is not importable (Debian python3-meep-mpi-default): run scripts/bootstrap") from exc
+    mp.verbosity(0)
+    fm = layout.meep_frequency(frequencies)
+    centre, width = _source_band(fm)
+    source = fd.feed_source(layout, centre, width)
+    sym = md.symmetries(layout, settings.use_symmetry)
+    sim = mp.Simulation(cell_size=mp.Vector3(*layout.cell_size), resolution=layout.resolution,
+                        geometry=md.horn_geometry(layout), boundary_layers=md.boundary_layers(layout),
+                        sources=[source], symmetries=sym, eps_averaging=False, dimensions=layout.dims)
+    mode_monitor = fd.add_mode_monitor(sim, layout, fm)
+    guide_flux = fd.add_guide_flux(sim, layout, fm)
+    surface = closed_surface(layout)
+    near2far, box_flux = ff.add_surface_monitors(sim, surface, fm)
+    name, _ = fd.mode_profile(layout)
+    state = {"steps": 0, "t0": time.monotonic()}
+    until = _stop_condition(settings, layout, 10.0 / width, float(fm.min()), getattr(mp, name),
+                            layout.point((0, 0), layout.source_z), progress, state)
+    t_step = time.monotonic()
+    sim.run(until=until)
+    seconds_stepping = time.monotonic() - t_step
+    if sim.meep_time() >= state["time_cap"] - 1e-9:
+        raise RunError(f"the DFT fields did not settle to {settings.decay_by:g} within "
+                       f"{settings.max_time_periods:g} periods of f_min; raise max_time_periods or decay_by")
+    result = _post_process(sim, layout, settings, frequencies, fm, mode_monitor, guide_flux, near2far, box_flux)
+    result.run.update({
+        "wall_thickness_modelled_m": layout.wall_thickness_m,
+        "wall_thickness_requested_m": float(horn.wall_thickness),
+        "cells_per_wavelength": float(cells_per_wavelength),
+        "resolution_cells_per_m": layout.resolution / layout.unit_length,
+        "grid_step_m": layout.unit_length / layout.resolution,
+        "cell_size_m": layout.cell_size_m,
+        "grid_cells": estimated_cells(layout, use_symmetry=False),
+        "seconds_stepping": seconds_stepping,
+        "seconds_total": time.monotonic() - t_start,
+        "meep_version": mp.__version__,
+        "symmetry": [f"Mirror({'XYZ'[s.direction]}, phase={s.phase.real:+g})" for s in sym],
+        "timesteps": int(state["steps"]),
+        "meep_time": float(sim.meep_time()),
+        "time_cap": float(state["time_cap"]),
+        "mpi_processes": int(mp.count_processors()),
+        "cells_across_guide_b": horn.guide_b / layout.unit_length * layout.resolution,
+        "layout": {"unit_length_m": layout.unit_length, "source_z_m": layout.source_z * layout.unit_length,
+                   "box_z_m": tuple(z * layout.unit_length for z in layout.box_z),
+                   "pml_m": layout.pml * layout.unit_length},
+    })
+    if progress is not None:
+        progress({"stage": "done", "meep_time": sim.meep_time(), "time_cap": state["time_cap"],
+                  "elapsed_s": time.monotonic() - t_start})
+    sim.reset_meep()
+    return result
+
+
+def closed_surface(layout):
+    """The near-to-far / flux box of a horn model, the feed guide's footprint cut out behind."""
+    z0, z1 = layout.box_z
+    centre = (0.0,) * (layout.dims - 1) + (0.5 * (z0 + z1) - layout.cell_center_z,)
+    half = tuple(layout.box_half) + (0.5 * (z1 - z0),)
+    return ff.ClosedSurface(layout.dims, centre, half, hole_half=layout.guide_footprint_half)
+
+
+def _mode_power(layout, reflection, meep_frequencies):
+    """Net power of the fitted waves, (|A|² − |B|²) N / Z with Z = ωμ/β (TE) or 1 (TEM).
+
+    N = ∫ e² over the guide cross-section (per unit length in 2D). Meep units (ε0 = μ0 = 1).
+    """
+    omega = 2 * np.pi * np.asarray(meep_frequencies)
+    if layout.dims == 3:
+        norm = layout.guide_a / 2 * layout.guide_b
+        impedance = omega / reflection["beta"]
+    elif layout.transverse == "h":
+        norm = layout.guide_a / 2
+        impedance = omega / reflection["beta"]
+    else:
+        norm = layout.guide_b
+        impedance = np.ones_like(omega)
+    return (np.abs(reflection["forward"]) ** 2 - np.abs(reflection["backward"]) ** 2) * norm / impedance
+
+
+def _post_process(sim, layout, settings, frequencies, fm, mode_monitor, guide_flux, near2far, box_flux):
+    import meep as mp
+
+    nf = fm.size
+    reflection = fd.reflection_at_throat(sim, layout, mode_monitor, fm)
+    s11 = reflection["s11"]
+    gamma2 = np.abs(s11) ** 2
+    p_net = np.array(mp.get_fluxes(guide_flux))
+    p_box = np.array(mp.get_fluxes(box_flux))
+    if not (np.all(np.isfinite(p_box)) and np.all(np.isfinite(p_net))):
+        raise RunError("the FDTD run produced non-finite fields (diverged)")
+    if np.any(p_net <= 0):
+        raise RunError("no net power reached the horn at some band frequency (feed or band wrong)")
+    with np.errstate(divide="ignore"):
+        p_inc = p_net / (1 - gamma2)
+    p_refl = p_inc * gamma2
+    p_mode = _mode_power(layout, reflection, fm)
+
+    step = settings.pattern_step_deg
+    theta = np.arange(-180.0, 180.0 + step / 2, step)
+    theta = theta[theta <= 180.0 + 1e-9]
+    r = md.FAR_FIELD_DISTANCE
+    cuts = {}
+    boresight = int(np.argmin(np.abs(theta)))
+    planes = ("h", "e") if layout.dims == 3 else (layout.transverse,)
+    for plane in planes:
+        directions, co, cross = ff.cut_directions(theta, plane)
+        if layout.dims == 2:
+            # flared plane → Meep (x, y): u → x, z → y; H-plane model: E along Meep z
+            u = directions[:, 0] if plane == "h" else directions[:, 1]
+            directions = np.stack([u, directions[:, 2], np.zeros_like(u)], axis=1)
+            if plane == "h":
+                co = np.tile([0.0, 0.0, 1.0], (theta.size, 1))
+            else:
+                co = np.stack([directions[:, 1], -directions[:, 0], np.zeros_like(u)], axis=1)
+            cross = np.cross(directions, co)
+        points = [mp.Vector3(*(r * d)) for d in directions]
+        e, h = ff.far_fields(sim, near2far, points, nf)
+        intensity = ff.radiation_intensity(e, h, directions, r, dims=layout.dims)
+        co_frac, cross_frac = ff.polarisation_split(e, co, cross)
+        d_total = ff.directivity(intensity, p_box, dims=layout.dims)
+        cuts[plane] = {"total": d_total, "co": d_total * co_frac, "cross": d_total * cross_frac}
+    main = cuts["h"] if "h" in cuts else cuts["e"]
+    d_boresight = main["total"][:, boresight]
+    gain = d_boresight * p_box / p_net
+    realized = d_boresight * p_box / p_inc
+
+    nan_cut = np.full((nf, theta.size), np.nan)
+    h_cut = db10(cuts["h"]["co"]) if "h" in cuts else nan_cut
+    e_cut = db10(cuts["e"]["co"]) if "e" in cuts else nan_cut
+    h_x = db10(cuts["h"]["cross"]) if "h" in cuts else nan_cut
+    e_x = db10(cuts["e"]["cross"]) if "e" in cuts else nan_cut
+    nan_f = np.full(nf, np.nan)
+    hpbw_h, null_h, sll_h = _cut_metrics(theta, h_cut) if "h" in cuts else (nan_f,) * 3
+    hpbw_e, null_e, sll_e = _cut_metrics(theta, e_cut) if "e" in cuts else (nan_f,) * 3
+    extra = {
+        "gain_dbi": db10(gain),
+        "realized_gain_dbi": db10(realized),
+        "s11_db": db20(s11),
+        "s11_real": np.real(s11),
+        "s11_imag": np.imag(s11),
+        "vswr": fd.vswr(s11),
+        "incident_power": p_inc,
+        "reflected_power": p_refl,
+        "accepted_power": p_net,
+        "radiated_power": p_box,
+        "power_balance_error": (p_box - p_net) / p_net,
+        "mode_power_error": (p_mode - p_net) / p_net,
+        "mode_fit_residual": reflection["fit_residual"],
+        "guide_beta_per_m": reflection["beta"] / layout.unit_length,
+        "h_plane_cross_dbi": h_x,
+        "e_plane_cross_dbi": e_x,
+    }
+    result = SimResult(
+        name="fdtd", dims=layout.dims, frequencies=frequencies, theta_deg=theta,
+        h_plane_dbi=h_cut, e_plane_dbi=e_cut, directivity_dbi=db10(d_boresight),
+        hpbw_h_deg=hpbw_h, hpbw_e_deg=hpbw_e, first_null_h_deg=null_h, first_null_e_deg=null_e,
+        sll_h_db=sll_h, sll_e_db=sll_e, extra=extra,
+        run={"power_units": "Meep units (relative); ratios are meaningful"},
+    )
+    if settings.full_pattern_step_deg and layout.dims == 3:
+        result.full_pattern = _full_pattern(sim, near2far, settings.full_pattern_step_deg, p_box, nf)
+        result.extra["sphere_power_ratio"] = result.full_pattern["sphere_power_ratio"]
+    return result
+
+
+def _full_pattern(sim, near2far, step_deg, p_box, nf):
+    """Directivity on a (θ, φ) grid and ∮U dΩ / P_box (a power check of the far field)."""
+    import meep as mp
+
+    theta = np.arange(0.0, 180.0 + step_deg / 2, step_deg)
+    theta = theta[theta <= 180.0 + 1e-9]
+    phi = np.arange(0.0, 360.0 - 1e-9, step_deg)
+    directions, co, cross = ff.sphere_directions(theta, phi)
+    r = md.FAR_FIELD_DISTANCE
+    e, h = ff.far_fields(sim, near2far, [mp.Vector3(*(r * d)) for d in directions], nf)
+    intensity = ff.radiation_intensity(e, h, directions, r).reshape(nf, theta.size, phi.size)
+    co_frac, _ = ff.polarisation_split(e, co, cross)
+    d = ff.directivity(intensity, p_box)
+    return {"theta_deg": theta, "phi_deg": phi, "directivity_dbi": db10(d),
+            "co_polar_dbi": db10(d * co_frac.reshape(d.shape)),
+            "sphere_power_ratio": ff.sphere_power(intensity, theta, phi) / p_box}
