@@ -332,7 +332,11 @@ def _describe(value):
 
 
 def _suggestion(word, known):
-    match = difflib.get_close_matches(str(word), list(known), n=1, cutoff=0.6)
+    """' (did you mean ...?)' for the nearest known name (difflib, else a prefix match), or ''."""
+    word = str(word)
+    match = difflib.get_close_matches(word, list(known), n=1, cutoff=0.6)
+    if not match and len(word) >= 3:
+        match = [name for name in known if name.startswith(word)][:1]
     return f" (did you mean {match[0]!r}?)" if match else ""
 
 
