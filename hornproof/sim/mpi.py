@@ -20,7 +20,7 @@ serial answer (rank 0 of 1) when Meep is not installed.
 import os
 
 __all__ = ["rank", "size", "is_master", "group_rank", "group_size", "is_group_master",
-           "barrier", "run_in_groups"]
+           "barrier", "run_in_groups", "launch_environment", "mpirun_command"]
 
 
 def _meep():
@@ -152,3 +152,33 @@ def run_in_groups(tasks, function, n_groups=None):
     if missing:
         raise RuntimeError(f"run_in_groups: no result for tasks {missing}")
     return [merged[i] for i in range(len(tasks))]
+
+
+# --- starting an MPI run from Python ------------------------------------------------------------
+_LAUNCHER_PREFIXES = ("OMPI_", "PMIX_", "PMI_")
+
+
+def launch_environment():
+    """Environment for a child ``mpirun``: ``os.environ`` without MPI launcher variables.
+
+    A Python process that has imported Meep is an MPI singleton, and Open MPI puts its own
+    variables into the process's C environment; a child ``mpirun`` that inherits them exits
+    with status 1 and no message (seen here with Open MPI 4.1). ``os.environ`` still holds the
+    environment from before the import, so passing a filtered copy of it explicitly works.
+    """
+    return {k: v for k, v in os.environ.items() if not k.startswith(_LAUNCHER_PREFIXES)}
+
+
+def mpirun_command(processes, argv, *, mpirun="mpirun"):
+    """``mpirun -np N [--allow-run-as-root] --oversubscribe argv…`` as a list.
+
+    ``--allow-run-as-root`` only when running as root (Open MPI refuses root otherwise);
+    ``--oversubscribe`` so N ranks start even when the machine's slots are counted as busy.
+    """
+    if int(processes) < 1:
+        raise ValueError(f"processes: must be >= 1, got {processes}")
+    command = [mpirun, "-np", str(int(processes))]
+    if hasattr(os, "geteuid") and os.geteuid() == 0:
+        command.append("--allow-run-as-root")
+    command.append("--oversubscribe")
+    return command + [str(a) for a in argv]
