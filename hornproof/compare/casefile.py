@@ -70,6 +70,8 @@ QUICK_TIER_MAX_CELLS = 10.0
 #: A band edge closer than this fraction above TE10 cutoff draws a warning.
 NEAR_CUTOFF_FRACTION = 0.05
 DEFAULT_WALL_MM = 1.0
+#: Most frequencies a band may hold (each one is a DFT monitor frequency in the FDTD model).
+MAX_BAND_POINTS = 1000
 #: Relative tolerance for "must equal the guide size" (sectoral horns).
 _SAME_SIZE_RTOL = 1e-6
 
@@ -622,6 +624,8 @@ def _band(table, prefix):
                                                    "f_min_ghz + f_max_ghz + points, not both")
         dotted = f"{prefix}.frequencies_ghz"
         values = _number_list(table["frequencies_ghz"], dotted)
+        if len(values) > MAX_BAND_POINTS:
+            raise _Problem(dotted, f"holds {len(values)} frequencies; at most {MAX_BAND_POINTS}")
         for value in values:
             if value <= 0:
                 raise _Problem(dotted, f"frequencies must be positive (GHz), got {value:g}")
@@ -651,6 +655,8 @@ def _band_points(value, dotted, f_min, f_max):
     points = _integer(value, dotted)
     if points < 1:
         raise _Problem(dotted, f"must be at least 1, got {points}")
+    if points > MAX_BAND_POINTS:
+        raise _Problem(dotted, f"must be at most {MAX_BAND_POINTS}, got {points}")
     if points == 1 and f_min != f_max:
         raise _Problem(dotted, "one point needs f_min_ghz equal to f_max_ghz "
                                "(or list the frequency in frequencies_ghz)")

@@ -507,3 +507,18 @@ def test_sweep_case_spans_small_to_large_phase_error():
     errors = [float(horn.phase_error_h(f)) for _, horn in case.sweep.horns(case.horn)]
     assert errors == sorted(errors)
     assert errors[0] < 0.1 and errors[-1] > 1.0
+
+
+@pytest.mark.parametrize("name", SHIPPED)
+def test_shipped_pattern_checks_name_figures_the_model_defines(name):
+    # a sidelobe or null tolerance is only meaningful where the analytic model has one
+    from hornproof.analytic.predict import predict
+
+    case = load_case(CASES / f"{name}.toml")
+    model = predict(case.horn, case.frequencies, dims=case.fdtd.dims)[case.check_model]
+    figures = {"sll_db": ("sll_h_db", "sll_e_db"),
+               "first_null_deg": ("first_null_h_deg", "first_null_e_deg")}
+    for check, attributes in figures.items():
+        if check in case.checks:
+            values = np.concatenate([np.asarray(getattr(model, a), dtype=float) for a in attributes])
+            assert np.isfinite(values).any(), f"{name}: {check} but the model has no such figure"
