@@ -11,6 +11,7 @@
     /full_pattern/theta_deg          deg, [nθ]   optional (θ, φ) grid
     /full_pattern/phi_deg            deg, [nφ]
     /full_pattern/directivity_dbi    dBi, [nf, nθ, nφ]
+    /full_pattern/co_polar_dbi       dBi, [nf, nθ, nφ] optional
     /s11/real, /s11/imag             1, [nf]  TE10 mode reflection (normalised to the guide's
                                               TE10 wave impedance; see sim/touchstone.py)
     /power/incident, /power/reflected, /power/radiated   [nf], units from the result
@@ -33,9 +34,10 @@ What a result object must offer
   attribute ``s11``);
 * power from ``extra`` keys ``incident_power``, ``reflected_power``, ``radiated_power``
   (aliases ``power_incident``… accepted), unit string ``power_units`` (attribute or extra);
-* metadata attributes (or ``extra`` / ``metadata`` dict entries): ``solver_version``,
-  ``cells_per_wavelength``, ``resolution`` (cells per metre), ``wall_thickness_modelled``
-  (m; alias ``wall_thickness_modelled_m``).
+* metadata attributes (or entries of the dicts ``extra``, ``run`` — as in ``sim.run.SimResult``
+  — or ``metadata``): ``solver_version`` (alias ``meep_version``), ``cells_per_wavelength``,
+  ``resolution`` (cells per metre; alias ``resolution_cells_per_m``),
+  ``wall_thickness_modelled`` (m; alias ``wall_thickness_modelled_m``).
 """
 
 import datetime
@@ -83,7 +85,7 @@ def _extra(result):
 
 def _metadata(result, *names, default=None):
     """First of ``names`` found as an attribute, in ``extra`` or in ``metadata``."""
-    sources = [result, _extra(result), _get(result, "metadata") or {}]
+    sources = [result, _extra(result), _get(result, "run") or {}, _get(result, "metadata") or {}]
     for name in names:
         for source in sources:
             value = _get(source, name)
@@ -159,7 +161,7 @@ def write_fields_h5(path, sim_result_like, *, case_sha256, case_name):
             handle.attrs["schema"] = FIELDS_SCHEMA
             handle.attrs["solver"] = "meep"
             handle.attrs["solver_version"] = str(_metadata(result, "solver_version",
-                                                           default="unknown"))
+                                                           "meep_version", default="unknown"))
             handle.attrs["cells_per_wavelength"] = _attr_value(
                 _metadata(result, "cells_per_wavelength"))
             handle.attrs["resolution"] = _attr_value(
@@ -199,9 +201,15 @@ def write_fields_h5(path, sim_result_like, *, case_sha256, case_name):
                 full_phi = _array(_get(full, "phi_deg"), "full_pattern.phi_deg")
                 dataset(group, "theta_deg", full_theta, "deg", "polar angle from boresight")
                 dataset(group, "phi_deg", full_phi, "deg", "azimuth from the H-plane (x)")
+                shape = (nf, full_theta.size, full_phi.size)
                 dataset(group, "directivity_dbi",
                         _array(_get(full, "directivity_dbi"), "full_pattern.directivity_dbi",
-                               (nf, full_theta.size, full_phi.size)), "dBi")
+                               shape), "dBi", "directivity, all polarisations")
+                co_polar = _get(full, "co_polar_dbi")
+                if co_polar is not None:
+                    dataset(group, "co_polar_dbi",
+                            _array(co_polar, "full_pattern.co_polar_dbi", shape), "dBi",
+                            "co-polar directivity (Ludwig 3, E along y)")
 
             s11 = s11_of(result)
             if s11 is not None:

@@ -117,7 +117,19 @@ class ProgressReporter:
         self.lines_written += 1
         return True
 
-    __call__ = update
+    def __call__(self, report, note=""):
+        """Take a fraction, or the dict that ``sim.run.simulate`` passes to ``progress``
+        (``stage``, ``meep_time``, ``time_cap``, ``elapsed_s``). The cap is the longest the
+        run may take (it usually stops earlier on DFT decay), so the ETA is an upper bound."""
+        if not isinstance(report, dict):
+            return self.update(report, note)
+        if report.get("stage") == "done":
+            return self.finish()
+        meep_time, cap = report.get("meep_time"), report.get("time_cap")
+        if meep_time is None or not cap:
+            return False
+        return self.update(time_fraction(meep_time, cap),
+                           note or f"t = {meep_time:.0f} of at most {cap:.0f}; ETA is a bound")
 
     def meep_time_step(self, target_time):
         """A Meep step function (``sim.run(reporter.meep_time_step(T), until=T)``)."""

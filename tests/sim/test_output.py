@@ -184,3 +184,31 @@ def test_atomic_writer_keeps_old_content_on_failure(tmp_path):
     os.umask(umask)
     write_text_atomic(tmp_path / "new.txt", "x")
     assert (os.stat(tmp_path / "new.txt").st_mode & 0o777) == (0o666 & ~umask)
+
+
+def test_fields_from_the_physics_side_result_class(tmp_path):
+    # sim.run.SimResult keeps its metadata in a ``run`` dict (meep_version,
+    # resolution_cells_per_m, wall_thickness_modelled_m, power_units): the writer must find it
+    run_module = pytest.importorskip("hornproof.sim.run")
+    base = _result(nf=2, ntheta=5)
+    nan = np.full(2, np.nan)
+    result = run_module.SimResult(
+        name="fdtd", dims=3, frequencies=base.frequencies, theta_deg=base.theta_deg,
+        h_plane_dbi=base.h_plane_dbi, e_plane_dbi=base.e_plane_dbi, directivity_dbi=nan,
+        hpbw_h_deg=nan, hpbw_e_deg=nan, first_null_h_deg=nan, first_null_e_deg=nan,
+        sll_h_db=nan, sll_e_db=nan, extra=base.extra,
+        run={"meep_version": "1.25.0", "resolution_cells_per_m": 640.0,
+             "wall_thickness_modelled_m": 2.5e-3, "cells_per_wavelength": 12.0,
+             "power_units": "Meep units (relative)"},
+        full_pattern={"theta_deg": base.full_pattern.theta_deg,
+                      "phi_deg": base.full_pattern.phi_deg,
+                      "directivity_dbi": base.full_pattern.directivity_dbi,
+                      "co_polar_dbi": base.full_pattern.directivity_dbi - 0.1})
+    path = tmp_path / "fields.h5"
+    write_fields_h5(path, result, case_sha256="c" * 64, case_name="physics")
+    back = read_fields_h5(path)
+    assert back["attributes"]["solver_version"] == "1.25.0"
+    assert back["attributes"]["resolution"] == 640.0
+    assert back["attributes"]["wall_thickness_modelled_m"] == 2.5e-3
+    assert back["units"]["/power/radiated"] == "Meep units (relative)"
+    assert "co_polar_dbi" in back["full_pattern"]
