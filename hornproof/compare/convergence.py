@@ -23,7 +23,8 @@ factor Fs = 1.25 for a three-grid monotonic ladder with an observed order in ran
 Fs = 3.0 when only two grids exist or the order had to be assumed (Roache 1997). This is the
 number the verdicts add to the tolerance.
 
-Ladder classification, with R = ε21/ε32 (Celik et al. 2008, after eq. 5; Roache 1997):
+Ladder classification, with R = ε21/ε32 (Celik et al. 2008, after eq. 5; Roache 1997),
+generalised to unequal ratios as R = (ε21/ln r21)/(ε32/ln r32) (see :func:`classify_ladder`):
 
 ``"monotonic"``   0 < R < 1: differences shrink with the same sign; GCI as above.
 ``"oscillatory"`` R < 0: the figure goes up then down (or down then up); no extrapolation.
@@ -130,6 +131,10 @@ def observed_order(eps21, eps32, r21, r32, *, tolerance=1e-12, max_iterations=50
     log_ratio = math.log(abs(eps32 / eps21))
     ln_r21 = math.log(r21)
     p = abs(log_ratio) / ln_r21  # q = 0 start: exact when r21 == r32
+    if p < 0.05:
+        # q(0) is 0/0; with unequal ratios ε21 ≈ ε32 can still mean p ≈ 1 (see
+        # classify_ladder), so start the iteration from first order instead.
+        p = 1.0
     for _ in range(max_iterations):
         numerator = r21**p - s
         denominator = r32**p - s
@@ -228,7 +233,7 @@ def gci_fine_absolute(fine_value, coarse_value, r21, order, safety_factor=SAFETY
     return safety_factor * abs(float(fine_value) - float(coarse_value)) / (r21**order - 1.0)
 
 
-def classify_ladder(eps21, eps32=None, noise_floor=0.0):
+def classify_ladder(eps21, eps32=None, noise_floor=0.0, r21=None, r32=None):
     """Classify a ladder from its finest differences.
 
     Parameters
@@ -239,12 +244,24 @@ def classify_ladder(eps21, eps32=None, noise_floor=0.0):
         φ3 − φ2, or None for a two-grid ladder.
     noise_floor : float
         Differences with magnitude at or below this (figure units, ≥ 0) count as converged.
+    r21, r32 : float, optional
+        Refinement ratios h2/h1, h3/h2 (> 1). Needed when they differ; default equal.
 
     Returns
     -------
     str
         One of ``"converged"``, ``"two-grid"``, ``"monotonic"``, ``"oscillatory"``,
-        ``"divergent"`` (R = ε21/ε32: 0 < R < 1 monotonic, R < 0 oscillatory, R ≥ 1 divergent).
+        ``"divergent"``: with R = (ε21 / ln r21) / (ε32 / ln r32), 0 < R < 1 monotonic,
+        R < 0 oscillatory, R ≥ 1 divergent.
+
+    Notes
+    -----
+    Celik et al. (2008) classify with R = ε21/ε32, which presumes a constant refinement
+    ratio. With r21 ≠ r32 that test misfires: a first-order series φ0 + C h on h = 1, 1.5, 2
+    has ε21 = ε32 (R = 1, "divergent") although it converges. For φ = φ0 + C h^p,
+    ε32/ε21 = r21^p (r32^p − 1)/(r21^p − 1), which tends to ln r32 / ln r21 as p → 0+; so
+    "the observed order is positive" is R < 1 with the differences taken per unit of ln h, as
+    above. For r21 = r32 it is exactly Celik's R. (hornproof's departure from the paper.)
 
     References
     ----------
@@ -258,7 +275,12 @@ def classify_ladder(eps21, eps32=None, noise_floor=0.0):
         return "converged"
     if abs(eps32) <= noise_floor:
         return "divergent"  # the fine pair moved more than a still coarse pair: not converging
-    ratio = eps21 / eps32
+    if (r21 is None) != (r32 is None):
+        raise ValueError("r21, r32: give both or neither")
+    if r21 is not None and not (r21 > 1 and r32 > 1):
+        raise ValueError(f"r21, r32: refinement ratios must exceed 1 (got {r21}, {r32})")
+    weight = 1.0 if r21 is None else math.log(r32) / math.log(r21)
+    ratio = weight * eps21 / eps32
     if ratio < 0:
         return "oscillatory"
     if ratio >= 1:
@@ -421,7 +443,7 @@ def estimate_ladder(cell_sizes, values, *, formal_order=1.0, noise_floor=0.0, mi
     phi3 = float(phi[2])
     r32 = refinement_ratio(h[2], h[1])
     eps32 = phi3 - phi2
-    estimate.status = classify_ladder(eps21, eps32, noise_floor)
+    estimate.status = classify_ladder(eps21, eps32, noise_floor, r21, r32)
     if estimate.status == "converged":
         return _converged(estimate, phi, noise_floor)
     if estimate.status in ("oscillatory", "divergent"):

@@ -88,6 +88,19 @@ def test_synthetic_series_recovers_order_and_limit(order):
     assert est.uncertainty >= abs(phi[0] - phi0)
 
 
+def test_first_order_with_equal_differences_is_monotonic():
+    # φ0 + C h on h = 1/24, 1/16, 1/12 (r21 = 1.5, r32 = 1.333) has ε21 = ε32 exactly, so
+    # Celik's R = ε21/ε32 = 1 would read "divergent"; the series converges at p = 1 (by
+    # construction), and per unit ln h the ratio is ln(1.333)/ln(1.5) = 0.71 < 1.
+    cpw = np.array([12.0, 16.0, 24.0])
+    est = cv.grid_convergence(15.0 - 20.0 / cpw, cells_per_wavelength=cpw)[0]
+    assert est.status == "monotonic" and est.confident
+    assert est.observed_order == pytest.approx(1.0, rel=1e-8)
+    assert est.extrapolated_value == pytest.approx(15.0, abs=1e-9)
+    assert cv.classify_ladder(-0.4, -0.4) == "divergent"  # same numbers, equal ratios
+    assert cv.classify_ladder(-0.4, -0.4, r21=1.5, r32=4 / 3) == "monotonic"
+
+
 def test_cells_per_wavelength_and_multi_frequency():
     # Two frequencies in one call; a cells-per-wavelength ladder (h ∝ 1/cpw), unsorted.
     cpw = np.array([30.0, 10.0, 20.0])
