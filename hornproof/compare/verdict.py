@@ -182,3 +182,106 @@ def breakdown_threshold(parameter_values, errors, uncertainties, tolerance):
         return "below range"
     x0, x1, m0, m1 = x[i - 1], x[i], margin[i - 1], margin[i]
     return float(x0 + (0.0 - m0) * (x1 - x0) / (m1 - m0))
+
+
+#: Metric name in the comparison block -> (figure key in result.json models, label, unit).
+COMPARED_FIGURES = {
+    "directivity_db": ("directivity_dbi", "Directivity", "dB"),
+    "directivity_2d_db": ("directivity_2d_db", "2D directivity", "dB"),
+    "realized_gain_db": ("realized_gain_dbi", "Realized gain", "dB"),
+    "hpbw_h_deg": ("hpbw_h_deg", "HPBW, H-plane", "deg"),
+    "hpbw_e_deg": ("hpbw_e_deg", "HPBW, E-plane", "deg"),
+    "first_null_h_deg": ("first_null_h_deg", "First null, H-plane", "deg"),
+    "first_null_e_deg": ("first_null_e_deg", "First null, E-plane", "deg"),
+    "sll_h_db": ("sll_h_db", "Sidelobe level, H-plane", "dB"),
+    "sll_e_db": ("sll_e_db", "Sidelobe level, E-plane", "dB"),
+}
+
+
+def _column(figures, key, nf):
+    if figures is None or key not in figures or figures[key] is None:
+        return np.full(nf, np.nan)
+    values = np.array([np.nan if v is None else v for v in figures[key]], dtype=float)
+    if values.shape != (nf,):
+        raise ValueError(f"models: figure {key!r} has {values.size} values, expected {nf}")
+    return values
+
+
+def _json_float(value):
+    value = float(value)
+    return value if np.isfinite(value) else None
+
+
+def comparison_block(frequencies, models, tolerances, fdtd_uncertainties=None, *,
+                     model_checked="closed_form", convergence=None):
+    """The ``comparison`` block of result.json (documented in :mod:`hornproof.compare.report`).
+
+    Parameters
+    ----------
+    frequencies : array_like [nf]
+        Band frequencies, Hz (written as GHz).
+    models : dict
+        ``{"closed_form": figures, "exact_phase": figures, "fdtd": figures}`` with figures as
+        in ``ModelResult.figures()`` (lists [nf], None = NaN). A missing model is all NaN.
+    tolerances : dict of str -> float
+        Metric name (a key of :data:`COMPARED_FIGURES`, e.g. ``"directivity_db"``) ->
+        tolerance in the metric's unit. Only these metrics are compared.
+    fdtd_uncertainties : dict of str -> array_like [nf], optional
+        Metric name -> absolute numerical uncertainty of the FDTD value (e.g. the GCI from
+        :mod:`hornproof.compare.convergence`); missing = unknown (NaN, verdict "unresolved").
+    model_checked : {"closed_form", "exact_phase"}
+        The analytic model the verdict is about; its difference to FDTD is judged.
+    convergence : dict, optional
+        Stored as is under ``"convergence"`` (see the report module docstring).
+
+    Returns
+    -------
+    dict
+        JSON-ready (NaN -> None).
+    """
+    if model_checked not in ("closed_form", "exact_phase"):
+        raise ValueError(f"model_checked: must be 'closed_form' or 'exact_phase', got {model_checked!r}")
+    f = np.atleast_1d(np.asarray(frequencies, dtype=float))
+    nf = f.size
+    fdtd_uncertainties = fdtd_uncertainties or {}
+    metrics = []
+    all_verdicts = []
+    for metric, tolerance in tolerances.items():
+        if metric not in COMPARED_FIGURES:
+            raise ValueError(f"tolerances: unknown metric {metric!r} (known: {sorted(COMPARED_FIGURES)})")
+        key, label, unit = COMPARED_FIGURES[metric]
+        # Realized gain: only FDTD has it; the analytic models are lossless and matched, so
+        # their directivity is their realized gain.
+        analytic_key = "directivity_dbi" if key == "realized_gain_dbi" else key
+        cf = _column(models.get("closed_form"), analytic_key, nf)
+        ep = _column(models.get("exact_phase"), analytic_key, nf)
+        fd = _column(models.get("fdtd"), key, nf)
+        u = np.broadcast_to(np.asarray(
+            [np.nan if v is None else v for v in np.atleast_1d(fdtd_uncertainties.get(metric, np.nan)).tolist()],
+            dtype=float), (nf,))
+        split = error_split(cf, ep, fd)
+        checked = cf if model_checked == "closed_form" else ep
+        difference = checked - fd
+        v = verdicts(difference, tolerance, u)
+        all_verdicts.extend(v)
+        rows = []
+        for i in range(nf):
+            rows.append({
+                "frequency_ghz": _json_float(f[i] / 1e9),
+                "closed_form": _json_float(cf[i]),
+                "exact_phase": _json_float(ep[i]),
+                "fdtd": _json_float(fd[i]),
+                "fdtd_uncertainty": _json_float(u[i]),
+                "difference": _json_float(difference[i]),
+                "phase_approximation_error": _json_float(split["phase_approximation_error"][i]),
+                "aperture_model_error": _json_float(split["aperture_model_error"][i]),
+                "total_error": _json_float(split["total_error"][i]),
+                "verdict": v[i],
+            })
+        metrics.append({"metric": metric, "label": label, "unit": unit,
+                        "tolerance": float(tolerance), "per_frequency": rows})
+    block = {"model_checked": model_checked, "reference": "fdtd", "metrics": metrics,
+             "overall": overall_verdict(all_verdicts)}
+    if convergence is not None:
+        block["convergence"] = convergence
+    return block

@@ -86,3 +86,26 @@ def test_breakdown_threshold_none_and_below_range():
     assert breakdown_threshold(x, [0.1, np.nan, 1.0], 0.0, 0.5) == pytest.approx(5 + 0.4 / 0.9 * 10)
     with pytest.raises(ValueError, match="parameter_values"):
         breakdown_threshold([1.0, 1.0], [0.1, 0.2], 0.0, 0.5)
+
+
+def test_comparison_block_by_hand():
+    # Two frequencies; tolerance 0.5 dB; FDTD uncertainty 0.1 and 0.8 dB.
+    # f1: cf − fdtd = 16.2 − 15.8 = 0.4 -> agrees; f2: 17.0 − 16.4 = 0.6, u = 0.8 > t -> unresolved.
+    from hornproof.compare.verdict import comparison_block
+    models = {"closed_form": {"directivity_dbi": [16.2, 17.0]},
+              "exact_phase": {"directivity_dbi": [16.0, 16.7]},
+              "fdtd": {"directivity_dbi": [15.8, 16.4]}}
+    block = comparison_block([10e9, 11e9], models, {"directivity_db": 0.5},
+                             {"directivity_db": [0.1, 0.8]})
+    rows = block["metrics"][0]["per_frequency"]
+    assert [r["verdict"] for r in rows] == ["agrees", "unresolved"]
+    assert rows[0]["frequency_ghz"] == pytest.approx(10.0)
+    assert rows[0]["phase_approximation_error"] == pytest.approx(0.2)
+    assert rows[0]["aperture_model_error"] == pytest.approx(0.2)
+    assert rows[1]["total_error"] == pytest.approx(0.6)
+    assert block["overall"] == "unresolved"
+    # Unknown uncertainty (none given) is never read as zero.
+    block = comparison_block([10e9, 11e9], models, {"directivity_db": 0.5})
+    assert block["overall"] == "unresolved"
+    with pytest.raises(ValueError, match="tolerances"):
+        comparison_block([10e9], models, {"gain_typo": 0.5})
