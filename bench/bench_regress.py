@@ -1,0 +1,146 @@
+"""Benchmark of ``hornproof regress``: the cache-hit path, and serial vs ``mpirun -np 2``.
+
+Run from the repository root::
+
+    .venv/bin/python bench/bench_regress.py            # both parts (the second needs verify)
+    .venv/bin/python bench/bench_regress.py --skip-mpi  # cache-hit path only
+
+1. Cache-hit path: every shipped case (cases/*.toml) copied to a scratch folder; the result cache
+   filled once with *synthetic* summaries (the cache-hit path never calls the runner, so what it
+   costs does not depend on where the cached results came from); then the whole suite is compared
+   again, in process and as a fresh ``python -m hornproof.compare.regress`` (interpreter start
+   included). Target: under 1 s.
+2. Quick tier, real runs (``hornproof.compare.verify.verify_case``): wall time serial and under
+   ``mpirun -np 2`` (two process groups), each with ``--fresh``. Skipped, and said so, when verify
+   is not available.
+
+Prints measured numbers only; nothing here is a pass/fail test.
+"""
+
+import argparse
+import json
+import math
+import os
+import shutil
+import statistics
+import subprocess
+import sys
+import tempfile
+import time
+from pathlib import Path
+
+REPO = Path(__file__).resolve().parents[1]
+sys.path.insert(0, str(REPO))
+
+from hornproof.compare import regress  # noqa: E402
+
+
+def synthetic_runner(case, out_dir, *, force=False, progress=None):
+    """A stand-in summary of the right shape (used only to fill the cache)."""
+    frequencies = [float(f) / 1e9 for f in case.frequencies]
+    key = "directivity_2d_db" if case.fdtd.dims == 2 else "directivity_dbi"
+    n = len(frequencies)
+    area = case.horn.aperture_a * case.horn.aperture_b
+    directivity = [10 * math.log10(4 * math.pi * area / (0.299792458 / f) ** 2) for f in frequencies]
+    result = {"schema": "hornproof.result/1", "case": case.name, "case_sha256": case.sha256,
+              "frequencies_ghz": frequencies,
+              "models": {"fdtd": {key: directivity, "hpbw_h_deg": [20.0] * n, "hpbw_e_deg": [25.0] * n,
+                                  "sll_h_db": [-20.0] * n, "sll_e_db": [-12.0] * n, "s11_db": [-25.0] * n,
+                                  "uncertainty": {key: [0.1] * n}}},
+              "solver": {"meep": "synthetic", "cells_per_wavelength": list(case.fdtd.cells_per_wavelength)}}
+    (Path(out_dir) / "result.json").write_text(json.dumps(result))
+    return result
+
+
+def _quiet_main(argv, runner=None):
+    saved = sys.stdout, sys.stderr
+    sys.stdout = sys.stderr = open(os.devnull, "w")
+    try:
+        return regress.main(argv, runner=runner)
+    finally:
+        sys.stdout.close()
+        sys.stdout, sys.stderr = saved
+
+
+def bench_cache_hit(scratch, repeats):
+    cases = scratch / "cases"
+    cases.mkdir()
+    for path in sorted((REPO / "cases").glob("*.toml")):
+        shutil.copy(path, cases / path.name)
+    count = len(list(cases.glob("*.toml")))
+    os.chdir(scratch)
+    code = _quiet_main(["--update"], runner=synthetic_runner)
+    if code != 0:
+        print(f"cache fill failed (exit {code}); see: cd {scratch} && python -m hornproof.compare.regress")
+        return
+    in_process = []
+    for _ in range(repeats):
+        started = time.perf_counter()
+        code = _quiet_main([], runner=None)  # no runner needed: everything is cached
+        in_process.append(time.perf_counter() - started)
+        assert code == 0, f"cache-hit run exited {code}"
+    fresh_process = []
+    env = dict(os.environ, PYTHONPATH=str(REPO))
+    for _ in range(repeats):
+        started = time.perf_counter()
+        done = subprocess.run([sys.executable, "-m", "hornproof.compare.regress"], cwd=scratch, env=env,
+                              capture_output=True, text=True)
+        fresh_process.append(time.perf_counter() - started)
+        if done.returncode != 0:
+            print(done.stderr)
+            break
+    print(f"cache-hit path, {count} cases (every shipped case), {repeats} repeats:")
+    print(f"  in process:          median {statistics.median(in_process):.3f} s  (min {min(in_process):.3f})")
+    print(f"  new python process:  median {statistics.median(fresh_process):.3f} s  (min {min(fresh_process):.3f})"
+          f"   target < 1 s: {'met' if statistics.median(fresh_process) < 1.0 else 'NOT met'}")
+
+
+def bench_mpi(scratch, cases, timeout):
+    try:
+        from hornproof.compare.verify import verify_case  # noqa: F401
+    except ImportError as error:
+        print(f"serial vs mpirun -np 2: skipped, hornproof.compare.verify not available ({error})")
+        return
+    if shutil.which("mpirun") is None:
+        print("serial vs mpirun -np 2: skipped, no mpirun")
+        return
+    env = dict(os.environ, PYTHONPATH=str(REPO))
+    base = [sys.executable, "-m", "hornproof.compare.regress", "--tier", "quick", "--fresh",
+            "--baselines", str(scratch / "baselines")] + [str(c) for c in cases]
+    times = {}
+    for label, prefix in (("serial", []),
+                          ("mpirun -np 2", ["mpirun", "--allow-run-as-root", "--oversubscribe", "-np", "2"])):
+        started = time.perf_counter()
+        done = subprocess.run(prefix + base + ["--results", str(scratch / f"results-{label[:6]}")], cwd=scratch,
+                              env=env, capture_output=True, text=True, timeout=timeout)
+        times[label] = time.perf_counter() - started
+        print(f"  {label:13s} {times[label]:8.1f} s  exit {done.returncode}")
+        if done.returncode not in (0, 1):
+            print("   " + (done.stderr.strip().splitlines() or ["(no error text)"])[-1])
+    if times.get("mpirun -np 2"):
+        print(f"  speed-up serial / mpirun -np 2: {times['serial'] / times['mpirun -np 2']:.2f}")
+
+
+def main():
+    parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    parser.add_argument("--repeats", type=int, default=5)
+    parser.add_argument("--skip-mpi", action="store_true", help="only the cache-hit path")
+    parser.add_argument("--cases", nargs="*", help="cases for the real quick-tier timing (default: all shipped)")
+    parser.add_argument("--timeout", type=float, default=3600.0, help="per real run, seconds")
+    args = parser.parse_args()
+    scratch = Path(tempfile.mkdtemp(prefix="hornproof-bench-regress-"))
+    try:
+        (scratch / "hit").mkdir()
+        bench_cache_hit(scratch / "hit", args.repeats)
+        if not args.skip_mpi:
+            cases = [Path(c).resolve() for c in args.cases] if args.cases else sorted((REPO / "cases").glob("*.toml"))
+            print(f"quick tier, real runs, {len(cases)} cases:")
+            (scratch / "mpi").mkdir()
+            bench_mpi(scratch / "mpi", cases, args.timeout)
+    finally:
+        os.chdir(REPO)
+        shutil.rmtree(scratch, ignore_errors=True)
+
+
+if __name__ == "__main__":
+    main()
