@@ -896,6 +896,8 @@ def add_regress_arguments(parser):
                                                              "exceeds free memory)")
     parser.add_argument("--junit", metavar="FILE",
                         help="JUnit XML output (default: <results>/regress-<tier>.junit.xml)")
+    parser.add_argument("--json", action="store_true",
+                        help="print the hornproof.regress/1 summary on stdout instead of the table")
     parser.add_argument("--summary", metavar="FILE",
                         help="JSON summary output, schema hornproof.regress/1 (default: <results>/regress.json)")
     return parser
@@ -958,7 +960,10 @@ def _finish(args, outcomes, results_dir, started):
     lines = [table, ""]
     for outcome in outcomes:
         if outcome.status == "regressed":
-            lines.append(f"regressed: {outcome.name}: report {outcome.report}")
+            if outcome.report and Path(outcome.report).is_file():
+                lines.append(f"regressed: {outcome.name}: report {outcome.report}")
+            else:
+                lines.append(f"regressed: {outcome.name}: result folder {outcome.result_dir} (no report.html)")
         elif outcome.status == "failed":
             lines.append(f"failed: {outcome.name}: {outcome.reason} (run folder {outcome.result_dir})")
     counts = count_statuses(outcomes)
@@ -978,7 +983,8 @@ def _finish(args, outcomes, results_dir, started):
                 raise InputError(f"{path}: cannot write baseline ({error})") from None
             updated.append(_display_path(path))
         lines.append(f"baselines written: {len(updated)}" + "".join(f"\n  {p}" for p in updated))
-    print("\n".join(lines), flush=True)
+    if not getattr(args, "json", False):
+        print("\n".join(lines), flush=True)
 
     summary_path = Path(args.summary) if args.summary else results_dir / "regress.json"
     junit_path = Path(args.junit) if args.junit else results_dir / f"regress-{tier}.junit.xml"
@@ -992,6 +998,8 @@ def _finish(args, outcomes, results_dir, started):
                                 "solver_version": document["solver_version"]})
     except OSError as error:
         raise InputError(f"{error.filename or summary_path}: cannot write ({error.strerror or error})") from None
+    if getattr(args, "json", False):
+        print(json.dumps(document, indent=2, sort_keys=True), flush=True)
     if args.update:
         return 1 if any(o.status == "failed" for o in outcomes) else 0
     return exit_status(outcomes)
@@ -1009,7 +1017,8 @@ def main(argv=None, *, runner=None, loader=None):
         if args.debug:
             raise
         message = str(error).splitlines()[0] if str(error) else type(error).__name__
-        print(f"hornproof regress: error: {message}", file=sys.stderr)
+        if os.environ.get("OMPI_COMM_WORLD_RANK", os.environ.get("PMI_RANK", "0")) == "0":
+            print(f"hornproof regress: error: {message}", file=sys.stderr)  # once, not once per rank
         return error.exit_code
 
 

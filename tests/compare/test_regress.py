@@ -456,3 +456,12 @@ def test_mpirun_two_groups_give_the_serial_table(workspace):
     assert _table(parallel.stdout) == _table(serial.stdout)
     assert parallel.stdout.count("case  ") == 1  # only rank 0 printed the table
     assert "on 2 ranks" in parallel.stderr
+
+
+def test_json_option_prints_the_summary(workspace, capsys):
+    code, out = _run(workspace, "--json", capsys=capsys)
+    assert code == 0
+    document = json.loads(out.out)
+    assert document["schema"] == "hornproof.regress/1"
+    assert document == _summary(workspace)
+    assert [c["case"] for c in document["cases"]] == ["horn-a", "horn-b", "horn-c"]
