@@ -151,8 +151,9 @@ class Case:
         stays in force. Raises ``InputError`` for a tier the case does not have.
         """
         if name not in self.tiers:
-            raise InputError(f"{self.path}: tiers: unknown tier {name!r}; this case has "
-                             f"{', '.join(sorted(self.tiers))}{_suggestion(name, self.tiers)}")
+            hint = _suggestion(name, self.tiers)
+            raise InputError(_one_line(f"{self.path}: tiers: unknown tier {name!r}{hint}; "
+                                       f"this case has {', '.join(sorted(self.tiers))}"))
         return _build_case(self.path, self.raw, tier=name, cells_override=self.cells_override)
 
     def with_cells(self, cells_per_wavelength, *, source="--cells-per-wavelength"):
@@ -170,7 +171,7 @@ class Case:
         try:
             cells = _cells_ladder(value, source)
         except _Problem as problem:
-            raise InputError(f"{self.path}: {problem.key}: {problem.reason}") from None
+            raise InputError(_one_line(f"{self.path}: {problem.key}: {problem.reason}")) from None
         return _build_case(self.path, self.raw, tier=self.tier, cells_override=cells)
 
 
@@ -201,14 +202,15 @@ def load_case(path):
 def read_toml(path):
     """Parse a TOML file into a dict; any failure is a one-line ``InputError`` naming the file."""
     path = Path(path)
-    if not path.exists():
-        raise InputError(f"{path}: cannot read the case file: no such file")
-    if path.is_dir():
-        raise InputError(f"{path}: cannot read the case file: it is a directory")
     try:
+        if not path.exists():
+            raise InputError(f"{path}: cannot read the case file: no such file")
+        if path.is_dir():
+            raise InputError(f"{path}: cannot read the case file: it is a directory")
         data = path.read_bytes()
-    except OSError as error:
-        raise InputError(f"{path}: cannot read the case file: {error.strerror or error}") from None
+    except (OSError, ValueError) as error:  # ValueError: e.g. a NUL byte in the path
+        reason = getattr(error, "strerror", None) or error
+        raise InputError(_one_line(f"{path}: cannot read the case file: {reason}")) from None
     try:
         text = data.decode("utf-8")
     except UnicodeDecodeError as error:
@@ -248,7 +250,7 @@ def _build_case(path, raw, *, tier=None, cells_override=None):
     try:
         return _case_from_definition(path, raw, tier, cells_override)
     except _Problem as problem:
-        raise InputError(f"{path}: {problem.key}: {_one_line(problem.reason)}") from None
+        raise InputError(_one_line(f"{path}: {problem.key}: {problem.reason}")) from None
 
 
 def _case_from_definition(path, raw, tier, cells_override):

@@ -234,7 +234,8 @@ def test_e_sectoral_defaults_and_accepts_equal_width(tmp_path):
     case = load_case(write(tmp_path, text))
     assert case.horn.aperture_a == case.horn.guide_a
     assert case.horn.aperture_b == pytest.approx(0.060)
-    written = replace_once(text, "aperture_b_mm = 60.0", "aperture_b_mm = 60.0\naperture_a_mm = 22.86")
+    written = replace_once(text, "aperture_b_mm = 60.0",
+                           "aperture_b_mm = 60.0\naperture_a_mm = 22.86")
     assert load_case(write(tmp_path, written)).horn.aperture_a == case.horn.guide_a
 
 
@@ -520,5 +521,14 @@ def test_shipped_pattern_checks_name_figures_the_model_defines(name):
                "first_null_deg": ("first_null_h_deg", "first_null_e_deg")}
     for check, attributes in figures.items():
         if check in case.checks:
-            values = np.concatenate([np.asarray(getattr(model, a), dtype=float) for a in attributes])
+            values = np.concatenate([np.asarray(getattr(model, attribute), dtype=float)
+                                     for attribute in attributes])
             assert np.isfinite(values).any(), f"{name}: {check} but the model has no such figure"
+
+
+def test_odd_keys_and_paths_stay_one_line(tmp_path):
+    text = GOOD.replace("wall_mm = 1.5", 'wall_mm = 1.5\n"two\\nlines" = 1')
+    message = error_of(write(tmp_path, text))
+    assert "\n" not in message and ": horn.two lines: unknown key" in message
+    message = error_of(str(tmp_path / "bad\0name.toml"))
+    assert "cannot read the case file" in message and "\n" not in message
