@@ -104,6 +104,13 @@ def _finite(values, name, shape=None):
     return array
 
 
+def _lower_first(text):
+    """'Directivity' -> 'directivity', but 'H-plane flare' and '2D directivity' stay."""
+    if len(text) > 1 and (text[1] in "-_" or text[1].isupper() or text[0].isdigit()):
+        return text
+    return text[:1].lower() + text[1:]
+
+
 def _title(ax, case_title, what):
     ax.set_title(f"{case_title}\n{what}", fontsize=10.5, loc="left")
 
@@ -312,7 +319,7 @@ def plot_convergence_ladder(cells_per_wavelength, values, path_stem, *, estimate
         ax.annotate(f"{ci:g} cells/λ", xy=(hi, yi), xytext=(0, 8), textcoords="offset points",
                     ha="center", fontsize=8, color=colour)
     at = f" at {frequency / GHZ:.3f} GHz" if frequency is not None else ""
-    _title(ax, case_title, f"Grid convergence of {quantity.lower()}{at}\n{status_line}")
+    _title(ax, case_title, f"Grid convergence of {_lower_first(quantity)}{at}\n{status_line}")
     _legend(ax)
     return save_figure(fig, path_stem)
 
@@ -386,7 +393,7 @@ def plot_error_vs_parameter(parameter_values, phase_approximation_error, apertur
     ax.set_ylim(bottom=0.0)
     ax.set_xlabel(f"{parameter_label} ({parameter_unit})")
     ax.set_ylabel(f"|{error_label}| ({error_unit})")
-    _title(ax, case_title, f"Model error against {parameter_label.lower()}")
+    _title(ax, case_title, f"Model error against {_lower_first(parameter_label)}")
     _legend(ax)
     return save_figure(fig, path_stem)
 
