@@ -4,16 +4,17 @@ The procedure is the Grid Convergence Index of Roache (1997) in the three-grid f
 out step by step by Celik et al. (2008), with the ladder classification (monotonic,
 oscillatory, divergent) that both papers insist on before an extrapolation is trusted.
 
-Notation (Celik et al. 2008): grid 1 is the finest, cell sizes h1 < h2 < h3,
+Equation numbers are those of Celik et al. (2008) as recalled (from memory); the paper
+is organised in numbered steps, cited here too. Notation (Celik et al. 2008): grid 1 is the finest, cell sizes h1 < h2 < h3,
 refinement ratios r21 = h2/h1 and r32 = h3/h2, figures φ1, φ2, φ3,
 ε21 = φ2 − φ1, ε32 = φ3 − φ2, s = sign(ε32/ε21).
 
-* Observed order p, by fixed-point iteration (their eqs. 3a–3c):
+* Observed order p, by fixed-point iteration (their step 3, eqs. 3a–3c):
   p = |ln|ε32/ε21| + q(p)| / ln r21,  q(p) = ln((r21^p − s)/(r32^p − s)).
-* Extrapolated value (eq. 4): φ_ext21 = (r21^p φ1 − φ2)/(r21^p − 1).
-* Approximate and extrapolated relative errors (eq. 5): e_a21 = |(φ1 − φ2)/φ1|,
+* Extrapolated value (step 4, eq. 4): φ_ext21 = (r21^p φ1 − φ2)/(r21^p − 1).
+* Approximate and extrapolated relative errors (step 5): e_a21 = |(φ1 − φ2)/φ1|,
   e_ext21 = |(φ_ext21 − φ1)/φ_ext21|.
-* Fine-grid convergence index (eq. 5): GCI_fine21 = 1.25 e_a21 / (r21^p − 1).
+* Fine-grid convergence index (step 5): GCI_fine21 = 1.25 e_a21 / (r21^p − 1).
 
 Absolute uncertainty. A figure in dB (directivity in dBi, a sidelobe level) is already
 logarithmic, and its relative error "per cent of a dB value" means nothing. hornproof therefore
@@ -23,7 +24,7 @@ factor Fs = 1.25 for a three-grid monotonic ladder with an observed order in ran
 Fs = 3.0 when only two grids exist or the order had to be assumed (Roache 1997). This is the
 number the verdicts add to the tolerance.
 
-Ladder classification, with R = ε21/ε32 (Celik et al. 2008, after eq. 5; Roache 1997),
+Ladder classification, with R = ε21/ε32 (Celik et al. 2008, step 5; Roache 1997),
 generalised to unequal ratios as R = (ε21/ln r21)/(ε32/ln r32) (see :func:`classify_ladder`):
 
 ``"monotonic"``   0 < R < 1: differences shrink with the same sign; GCI as above.
@@ -91,7 +92,7 @@ def refinement_ratio(coarse_cell_size, fine_cell_size):
 
     References
     ----------
-    Celik et al. (2008), eq. 2 context: r21 = h2/h1, r32 = h3/h2.
+    Celik et al. (2008), step 2: r21 = h2/h1, r32 = h3/h2.
     """
     if not (coarse_cell_size > 0 and fine_cell_size > 0):
         raise ValueError("cell size: must be positive")
@@ -120,7 +121,7 @@ def observed_order(eps21, eps32, r21, r32, *, tolerance=1e-12, max_iterations=50
 
     References
     ----------
-    Celik et al. (2008), eqs. 3a–3c: p = |ln|ε32/ε21| + q(p)| / ln r21,
+    Celik et al. (2008), step 3, eqs. 3a–3c: p = |ln|ε32/ε21| + q(p)| / ln r21,
     q(p) = ln((r21^p − s)/(r32^p − s)), s = sign(ε32/ε21).
     """
     if eps21 == 0 or eps32 == 0 or not (np.isfinite(eps21) and np.isfinite(eps32)):
@@ -178,7 +179,7 @@ def richardson_extrapolate(fine_value, coarse_value, r21, order):
 
 
 def approximate_relative_error(fine_value, coarse_value):
-    """e_a21 = |(φ1 − φ2)/φ1| (Celik et al. 2008, eq. 5). NaN if φ1 = 0."""
+    """e_a21 = |(φ1 − φ2)/φ1| (Celik et al. 2008, step 5). NaN if φ1 = 0."""
     fine_value = float(fine_value)
     if fine_value == 0:
         return math.nan
@@ -186,7 +187,7 @@ def approximate_relative_error(fine_value, coarse_value):
 
 
 def extrapolated_relative_error(fine_value, extrapolated_value):
-    """e_ext21 = |(φ_ext21 − φ1)/φ_ext21| (Celik et al. 2008, eq. 5). NaN if φ_ext21 = 0."""
+    """e_ext21 = |(φ_ext21 − φ1)/φ_ext21| (Celik et al. 2008, step 5). NaN if φ_ext21 = 0."""
     extrapolated_value = float(extrapolated_value)
     if extrapolated_value == 0 or not np.isfinite(extrapolated_value):
         return math.nan
@@ -198,7 +199,7 @@ def gci_fine_relative(fine_value, coarse_value, r21, order, safety_factor=SAFETY
 
     References
     ----------
-    Celik et al. (2008), eq. 5 (Fs = 1.25); Roache (1997) (Fs = 3 for two grids).
+    Celik et al. (2008), step 5 (Fs = 1.25); Roache (1997) (Fs = 3 for two grids).
     """
     e_a = approximate_relative_error(fine_value, coarse_value)
     return safety_factor * e_a / (r21**order - 1.0)
@@ -222,7 +223,7 @@ def gci_fine_absolute(fine_value, coarse_value, r21, order, safety_factor=SAFETY
 
     References
     ----------
-    Roache (1997); Celik et al. (2008), eq. 5, multiplied through by |φ1|.
+    Roache (1997); Celik et al. (2008), step 5, multiplied through by |φ1|.
     """
     if not r21 > 1:
         raise ValueError(f"r21: must exceed 1, got {r21}")
@@ -265,7 +266,7 @@ def classify_ladder(eps21, eps32=None, noise_floor=0.0, r21=None, r32=None):
 
     References
     ----------
-    Celik et al. (2008), discussion after eq. 5; Roache (1997).
+    Celik et al. (2008), step 5 discussion; Roache (1997).
     """
     if noise_floor < 0 or not np.isfinite(noise_floor):
         raise ValueError(f"noise_floor: must be finite and non-negative, got {noise_floor}")

@@ -28,7 +28,7 @@ Error split. For a figure computed by the three models,
 References
 ----------
 ASME V&V 20-2009, Standard for Verification and Validation in Computational Fluid Dynamics
-and Heat Transfer, section 1 (comparison error and validation uncertainty).
+and Heat Transfer (comparison error E and validation uncertainty u_val).
 """
 
 import numpy as np

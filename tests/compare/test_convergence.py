@@ -1,6 +1,7 @@
 """Tests of the Grid Convergence Index against the published procedure and known series.
 
-Formulas (Celik et al. 2008, J. Fluids Eng. 130, 078001, eqs. 3–5; Roache 1997):
+Formulas (Celik et al. 2008, J. Fluids Eng. 130, 078001, steps 3–5, eqs. 3a–c and 4 as
+recalled from memory; Roache 1997):
   ε21 = φ2 − φ1, ε32 = φ3 − φ2, s = sign(ε32/ε21)
   p = |ln|ε32/ε21| + q(p)| / ln r21,  q(p) = ln((r21^p − s)/(r32^p − s))
   φ_ext21 = (r21^p φ1 − φ2)/(r21^p − 1)
