@@ -58,13 +58,29 @@ from pathlib import Path
 from hornproof.errors import RunError
 
 
+def meep_flux(case):
+    """A tiny real Meep run (2D point source, flux through a line), sized by the case's aperture."""
+    import meep as mp
+
+    mp.verbosity(0)
+    frequency = case.horn.aperture_a / 0.06  # 1.0 for a 60 mm aperture (Meep units)
+    sources = [mp.Source(mp.GaussianSource(frequency, fwidth=0.5 * frequency), component=mp.Ez,
+                         center=mp.Vector3())]
+    sim = mp.Simulation(cell_size=mp.Vector3(2, 2), resolution=10, sources=sources,
+                        boundary_layers=[mp.PML(0.4)])
+    box = sim.add_flux(frequency, 0, 1, mp.FluxRegion(center=mp.Vector3(0.5, 0), size=mp.Vector3(0, 1)))
+    sim.run(until=20)
+    return float(mp.get_fluxes(box)[0])
+
+
 def synthetic_result(case):
     frequencies = [float(f) / 1e9 for f in case.frequencies]
     shifts = json.loads(os.environ.get("FAKE_SHIFT", "{}"))
+    flux = meep_flux(case) if os.environ.get("FAKE_MEEP") else 0.0
     u = float(os.environ.get("FAKE_UNCERTAINTY", "0.1"))
     wavelengths = [0.299792458 / f for f in frequencies]
     directivity = [10 * math.log10(4 * math.pi * case.horn.aperture_a * case.horn.aperture_b / w ** 2)
-                   + shifts.get(case.name, 0.0) for w in wavelengths]
+                   + shifts.get(case.name, 0.0) + flux for w in wavelengths]
     hpbw = [math.degrees(1.18 * w / case.horn.aperture_a) for w in wavelengths]
     key = "directivity_2d_db" if case.fdtd.dims == 2 else "directivity_dbi"
     return {"schema": "hornproof.result/1", "case": case.name, "case_sha256": case.sha256,
@@ -115,7 +131,7 @@ def workspace(tmp_path, monkeypatch):
     spec.loader.exec_module(fake)
     monkeypatch.chdir(tmp_path)
     monkeypatch.setenv("FAKE_LOG", str(tmp_path / "runs.log"))
-    for name in ("FAKE_SHIFT", "FAKE_FAIL", "FAKE_SLOW", "FAKE_UNCERTAINTY"):
+    for name in ("FAKE_SHIFT", "FAKE_FAIL", "FAKE_SLOW", "FAKE_UNCERTAINTY", "FAKE_MEEP"):
         monkeypatch.delenv(name, raising=False)
     return {"root": tmp_path, "cases": cases, "driver": driver, "fake": fake, "log": tmp_path / "runs.log"}
 
@@ -383,7 +399,7 @@ def test_missing_case_path_exits_2(workspace, capsys):
 def _subprocess_env(ws, **extra):
     env = dict(os.environ)
     env.update({"FAKE_LOG": str(ws["log"]), "PYTHONPATH": str(REPO)})
-    for name in ("FAKE_SHIFT", "FAKE_FAIL", "FAKE_SLOW"):
+    for name in ("FAKE_SHIFT", "FAKE_FAIL", "FAKE_SLOW", "FAKE_MEEP"):
         env.pop(name, None)
     env.update(extra)
     return env
@@ -465,3 +481,51 @@ def test_json_option_prints_the_summary(workspace, capsys):
     assert document["schema"] == "hornproof.regress/1"
     assert document == _summary(workspace)
     assert [c["case"] for c in document["cases"]] == ["horn-a", "horn-b", "horn-c"]
+
+
+MPIRUN = ["mpirun", "--allow-run-as-root", "--oversubscribe", "-np", "2"]
+
+
+@pytest.mark.fullwave
+@pytest.mark.skipif(shutil.which("mpirun") is None, reason="needs mpirun (openmpi-bin)")
+def test_mpirun_with_a_failing_case_and_more_cases_than_groups(workspace):
+    ws = workspace
+    (ws["cases"] / "horn-d.toml").write_text(CASE_TEMPLATE.format(name="horn-d", aperture_a=60.0, flare=80.0))
+    command = [sys.executable, str(ws["driver"]), "--results", "results", "--fresh"]
+    env = _subprocess_env(ws, FAKE_FAIL="horn-c")
+    serial = subprocess.run(command, cwd=ws["root"], env=env, capture_output=True, text=True, timeout=120)
+    assert serial.returncode == 1
+    ws["log"].unlink()
+    parallel = subprocess.run(MPIRUN + command, cwd=ws["root"], env=env, capture_output=True, text=True,
+                              timeout=300)
+    assert parallel.returncode == 1, parallel.stderr
+    # four cases of similar size on two ranks: two groups of one rank, two cases each
+    runs = sorted(line.split() for line in _runs(ws))
+    assert [name for name, _ in runs] == ["horn-a", "horn-b", "horn-c", "horn-d"]
+    assert sorted(rank for _, rank in runs) == ["0", "0", "1", "1"]
+    assert _table(parallel.stdout) == _table(serial.stdout)
+    entry = next(c for c in _summary(ws)["cases"] if c["case"] == "horn-c")
+    assert entry["status"] == "failed" and "diverged" in entry["reason"]
+
+
+@pytest.mark.fullwave
+@pytest.mark.skipif(shutil.which("mpirun") is None, reason="needs mpirun (openmpi-bin)")
+def test_mpirun_real_meep_runs_inside_process_groups(workspace):
+    # Each fake run does a tiny real Meep simulation; baselines recorded serially must be matched
+    # by the runs made inside the MPI process groups.
+    ws = workspace
+    (ws["cases"] / "horn-c.toml").unlink()
+    env = _subprocess_env(ws, FAKE_MEEP="1")
+    command = [sys.executable, str(ws["driver"]), "--results", "results"]
+    serial = subprocess.run(command + ["--update"], cwd=ws["root"], env=env, capture_output=True, text=True,
+                            timeout=300)
+    assert serial.returncode == 0, serial.stderr
+    parallel = subprocess.run(MPIRUN + command + ["--fresh"], cwd=ws["root"], env=env, capture_output=True,
+                              text=True, timeout=300)
+    assert parallel.returncode == 0, parallel.stderr
+    statuses = {f["status"] for c in _summary(ws)["cases"] for f in c["figures"]}
+    assert statuses == {"unchanged"}
+    base = json.loads((ws["cases"] / "baselines" / "horn-a.quick.json").read_text())
+    plain = ws["fake"].synthetic_result(regress._default_loader()(ws["cases"] / "horn-a.toml").for_tier("quick"))
+    key = "directivity_2d_db"
+    assert base["figures"][key]["values"][0] != pytest.approx(plain["models"]["fdtd"][key][0], abs=1e-6)
