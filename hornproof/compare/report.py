@@ -88,12 +88,14 @@ _VERDICT_TEXT = {
     "disagrees": "DISAGREES",
     "unresolved": "unresolved — needs finer cells",
     "missing": "no value",
+    "no checks": "no checks requested",
 }
 
 _STYLE = """
 body { font-family: "DejaVu Sans", Arial, sans-serif; margin: 2em auto; max-width: 72em;
        color: #222; line-height: 1.4; padding: 0 1em; }
 h1 { font-size: 1.5em; margin-bottom: 0.1em; }
+h3 { font-size: 1.0em; margin-top: 1.2em; }
 h2 { font-size: 1.15em; border-bottom: 1px solid #bbb; padding-bottom: 0.15em; margin-top: 1.8em; }
 .sub { color: #555; margin-top: 0; }
 .overall { display: inline-block; padding: 0.3em 0.8em; border: 2px solid #444; font-weight: bold; }
@@ -280,6 +282,62 @@ def _verdict_table(comparison):
     return "<table id='verdicts'>" + head + "".join(rows) + "</table>" + _VERDICT_RULE
 
 
+def _frequency_at(result, index):
+    f_ghz = result.get("frequencies_ghz") or []
+    return f_ghz[index] if isinstance(index, int) and 0 <= index < len(f_ghz) else None
+
+
+def _extra_checks_table(result):
+    """Checks outside the figure table (e.g. pattern RMS, return loss), if the result has any.
+
+    Rows as written by ``verify``: ``check``, ``frequency_index``, ``value``, ``uncertainty``,
+    ``limit``, ``verdict``.
+    """
+    rows = (result.get("comparison") or {}).get("extra_checks") or []
+    if not rows:
+        return ""
+    body = "".join(
+        f"<tr class='v-{_esc(r.get('verdict', 'missing'))}'><td class='text'>{_esc(r.get('check', '?'))}</td>"
+        f"<td>{_number(_frequency_at(result, r.get('frequency_index')))}</td>"
+        f"<td>{_number(r.get('value'))}</td><td>{_number(r.get('uncertainty'))}</td>"
+        f"<td>{_number(r.get('limit'))}</td>"
+        f"<td class='text verdict'>{_esc(_VERDICT_TEXT.get(r.get('verdict'), r.get('verdict')))}</td></tr>"
+        for r in rows)
+    return ("<h3>Further checks</h3><table id='extra-checks'><tr><th class='text'>Check</th>"
+            "<th>Frequency (GHz)</th><th>Value (dB)</th><th>Uncertainty (dB)</th><th>Limit (dB)</th>"
+            "<th class='text'>Verdict</th></tr>" + body + "</table>")
+
+
+def _pattern_error_table(result):
+    """Main-lobe pattern error per plane and model, if the result has it.
+
+    Expected: ``comparison.pattern_error = {"window_db": -10, "planes": {plane: {model:
+    PatternError.to_dict() + "uncertainty_db": [nf]}}}``.
+    """
+    block = (result.get("comparison") or {}).get("pattern_error") or {}
+    planes = block.get("planes") or {}
+    rows = []
+    for plane, by_model in planes.items():
+        for model, entry in (by_model or {}).items():
+            rms = entry.get("rms_db") or []
+            for i, value in enumerate(rms):
+                worst = (entry.get("worst_db") or [None] * len(rms))[i]
+                angle = (entry.get("worst_angle_deg") or [None] * len(rms))[i]
+                unc = (entry.get("uncertainty_db") or [None] * len(rms))[i]
+                rows.append(f"<tr><td class='text'>{_esc(plane.replace('_', '-'))}</td>"
+                            f"<td class='text'>{_esc(model.replace('_', ' '))}</td>"
+                            f"<td>{_number(_frequency_at(result, i))}</td><td>{_number(value)}</td>"
+                            f"<td>{_number(unc)}</td><td>{_number(worst)}</td><td>{_number(angle, 1)}</td></tr>")
+    if not rows:
+        return ""
+    window = _number(block.get("window_db"), 1)
+    return (f"<h3>Pattern error over the main lobe (down to {window} dB below the FDTD peak), "
+            "model − FDTD</h3><table id='pattern-error'><tr><th class='text'>Plane</th>"
+            "<th class='text'>Model</th><th>Frequency (GHz)</th><th>RMS (dB)</th>"
+            "<th>Uncertainty (dB)</th><th>Worst (dB)</th><th>at θ (deg)</th></tr>"
+            + "".join(rows) + "</table>")
+
+
 def _figure_html(png_path):
     data = base64.b64encode(Path(png_path).read_bytes()).decode("ascii")
     stem = Path(png_path).stem
@@ -398,7 +456,8 @@ def build_report(result_dir, *, render_missing=True):
                          "</span></p>")
     else:
         verdict_intro = ""
-    verdicts = verdict_intro + _verdict_table(comparison) + _warnings_html(result.get("warnings"))
+    verdicts = (verdict_intro + _verdict_table(comparison) + _extra_checks_table(result)
+                + _pattern_error_table(result) + _warnings_html(result.get("warnings")))
     subtitle = (f"Case {_esc(result.get('case', '?'))} · band "
                 f"{_number(min(result.get('frequencies_ghz') or [math.nan]))}–"
                 f"{_number(max(result.get('frequencies_ghz') or [math.nan]))} GHz")

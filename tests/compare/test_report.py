@@ -12,7 +12,7 @@ import re
 import numpy as np
 import pytest
 
-from hornproof.compare import convergence, plots, report, verdict
+from hornproof.compare import convergence, metrics, plots, report, verdict
 from hornproof.compare.safety import RF_EXPOSURE_CAUTION
 from hornproof.errors import InputError
 
@@ -53,6 +53,17 @@ def synthetic_result(tmp_path, title="Synthetic horn <test> & co"):
         "solver": {"meep": "1.25.0", "cells_per_wavelength": cpw, "seconds": 12.5},
         "warnings": ["wall thickened to 2 cells <b>"],
     }
+    # Extra blocks as verify writes them: pattern error (metrics.PatternError.to_dict()) and
+    # further checks. RMS 0.3 dB over the lobe is checked against a 0.5 dB limit with u 0.1.
+    theta = np.linspace(-30, 30, 61)
+    pe = metrics.pattern_error(theta, np.tile(-0.02 * theta**2 + 0.3, (3, 1)),
+                               np.tile(-0.02 * theta**2, (3, 1))).to_dict()
+    pe["uncertainty_db"] = [0.1, 0.1, 0.1]
+    comparison["pattern_error"] = {"window_db": -10.0, "planes": {"h_plane": {"closed_form": pe}}}
+    comparison["extra_checks"] = [{"check": "pattern_rms_h_plane", "frequency_index": 0,
+                                   "value": pe["rms_db"][0], "uncertainty": 0.1, "limit": 0.5,
+                                   "verdict": verdict.verdict(pe["rms_db"][0], 0.5, 0.1)}]
+    result["comparison"] = comparison
     (tmp_path / "result.json").write_text(json.dumps(result))
     theta = np.linspace(-90, 90, 181)
     plots.plot_pattern_overlay(theta, 16 - 0.02 * theta**2, 15.8 - 0.02 * theta**2,
@@ -89,6 +100,12 @@ def test_report_self_contained_verdicts_first_and_safety(tmp_path):
     assert cells == [report._VERDICT_TEXT[v] for v in ("agrees", "unresolved", "disagrees")]
     assert "16.000" in table and "15.600 ± 0.250" in table
     assert result["comparison"]["overall"] == "disagrees" and "DISAGREES" in text
+    # Pattern error and further checks precede the figures too; 0.3 dB offset -> RMS 0.300.
+    assert text.index("id='pattern-error'") < text.index("<img")
+    pattern = text[text.index("id='pattern-error'"):]
+    assert "<td>0.300</td>" in pattern[:pattern.index("</table>")]
+    extra = text[text.index("id='extra-checks'"):]
+    assert "agrees" in extra[:extra.index("</table>")]
 
 
 def test_report_refuses_unknown_schema(tmp_path):
