@@ -42,10 +42,11 @@ flagged ``"spread-bound"``. It is an honest "at least this uncertain", not an er
 
 An observed order outside [``min_order``, ``max_order``] (default 0.5 and 2 × ``formal_order``)
 means the grids are not in the asymptotic range or the differences are noise: it is flagged
-``"order-out-of-range"`` and the estimate falls back to the formal order with Fs = 3.0. The
-fallback uses the larger of the fine-pair estimate and the coarse-pair estimate carried to the
-fine grid, ``|ε32| / (r21^pf (r32^pf − 1))`` (from φ = φ0 + C h^pf), so that a fine pair that
-happens to agree does not produce a zero uncertainty.
+``"order-out-of-range"`` and the estimate falls back to the formal order pf with Fs = 3.0,
+``3 |ε21| / (r21^pf − 1)`` (Roache 1997). As a floor, hornproof also carries the coarse pair to
+the fine grid at the fastest credible order, ``3 |ε32| / (r21^pmax (r32^pmax − 1))`` (from
+φ = φ0 + C h^p with p = ``max_order``), and keeps the larger: a fine pair that happens to agree
+(ε21 ≈ 0) then does not produce a near-zero uncertainty. (The floor is hornproof's choice.)
 
 The default ``formal_order`` is 1: Meep's Yee scheme is second order in a smooth medium, but
 PEC walls get no subpixel smoothing, so a flared (staircased) horn converges at about first
@@ -461,8 +462,7 @@ def estimate_ladder(cell_sizes, values, *, formal_order=1.0, noise_floor=0.0, mi
         estimate.flags.append("order-out-of-range")
     if estimate.flags and estimate.flags[-1] in ("order-out-of-range", "order-iteration-failed"):
         _fill_gci(estimate, phi1, phi2, r21, formal_order, SAFETY_FACTOR_TWO_GRID)
-        rp1 = r21**formal_order
-        coarse_pair = SAFETY_FACTOR_TWO_GRID * abs(eps32) / (rp1 * (r32**formal_order - 1.0))
+        coarse_pair = SAFETY_FACTOR_TWO_GRID * abs(eps32) / (r21**max_order * (r32**max_order - 1.0))
         estimate.uncertainty = max(estimate.uncertainty, coarse_pair)
         if phi1 != 0:
             estimate.gci_fine_relative = estimate.uncertainty / abs(phi1)

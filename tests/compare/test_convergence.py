@@ -165,7 +165,8 @@ def test_non_monotonic_h_plane_ladder_is_flagged():
 
 def test_order_out_of_range_falls_back_to_formal_order():
     # p ≈ 5 from a ladder whose differences collapse: flagged and re-estimated with the
-    # formal order (1) and Fs = 3; the fallback also covers the coarse-pair estimate.
+    # formal order (1) and Fs = 3 (Roache 1997); hornproof's floor carries the coarse pair to
+    # the fine grid at the largest accepted order (2 × formal = 2): 3 ε32 / (2² (2² − 1)).
     h = np.array([1.0, 2.0, 4.0])
     phi = 1.0 + 0.01 * h**5
     est = cv.estimate_ladder(h, phi, formal_order=1.0)
@@ -173,7 +174,10 @@ def test_order_out_of_range_falls_back_to_formal_order():
     assert est.observed_order == pytest.approx(5.0, rel=1e-6)
     assert est.order_used == 1.0 and est.safety_factor == 3.0 and not est.confident
     eps21, eps32 = phi[1] - phi[0], phi[2] - phi[1]
-    assert est.uncertainty == pytest.approx(max(3 * eps21 / 1.0, 3 * eps32 / (2 * 1.0)))
+    assert est.uncertainty == pytest.approx(max(3 * eps21 / (2 - 1), 3 * eps32 / (4 * (4 - 1))))
+    # Here the floor decides (0.93 vs 2.48); a fine pair that agrees by chance still gets one:
+    lucky = cv.estimate_ladder(h, [1.0, 1.0 + 1e-9, 1.3], formal_order=1.0)
+    assert lucky.uncertainty == pytest.approx(3 * 0.3 / 12, rel=1e-6)
 
 
 def test_converged_single_and_bad_input():
