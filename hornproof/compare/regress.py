@@ -592,6 +592,23 @@ def _load_cases(paths, tier, loader):
     return loaded
 
 
+def _check_result(path, case_sha256):
+    """ValueError naming the file and key unless ``path`` is a usable summary of this case."""
+    try:
+        result = json.loads(Path(path).read_text(encoding="utf-8"))
+    except (OSError, UnicodeDecodeError, ValueError) as error:
+        raise ValueError(f"{path}: unreadable ({error})") from None
+    if not isinstance(result, dict) or result.get("schema") != RESULT_SCHEMA:
+        raise ValueError(f"{path}: schema: expected {RESULT_SCHEMA!r}")
+    if result.get("case_sha256") != case_sha256:
+        raise ValueError(f"{path}: case_sha256: {str(result.get('case_sha256'))[:12]!r} is not the hash of the "
+                         f"case run ({str(case_sha256)[:12]!r})")
+    try:
+        figures_from_result(result)
+    except ValueError as error:
+        raise ValueError(f"{path}: {error}") from None
+
+
 def _run_one(runner, cache, tier_case, key, inputs, token, group_comm, *, force, log):
     """Run one case inside one process group. Returns (record or None on non-masters).
 
@@ -625,6 +642,7 @@ def _run_one(runner, cache, tier_case, key, inputs, token, group_comm, *, force,
                 if not isinstance(result, dict) or result.get("schema") != RESULT_SCHEMA:
                     raise ValueError(f"the run returned no {RESULT_SCHEMA} summary")
                 cache.write_result(partial, result)
+            _check_result(partial / RESULT_FILE, tier_case.sha256)  # only usable results enter the cache
             final = cache.commit(partial, tier_case.name, key, inputs)
         except (ValueError, OSError) as exc:
             problems.append((str(exc), ""))
@@ -763,9 +781,11 @@ def run_regression(case_paths, *, tier="quick", results_dir="results", baselines
             continue
         outcome.source = "run"
         outcome.result_dir = _display_path(record["dir"])
-        outcome.result = cache.lookup(outcome.name, outcome.key, outcome.case_sha256)
+        notes = []
+        outcome.result = cache.lookup(outcome.name, outcome.key, outcome.case_sha256, notes)
         if outcome.result is None:
-            outcome.status, outcome.reason = "failed", f"{record['dir']}: finished result could not be read back"
+            outcome.status = "failed"
+            outcome.reason = notes[0] if notes else f"{record['dir']}: finished result could not be read back"
 
     for (path, case, tier_case), outcome, baseline in zip(loaded, outcomes, baselines):
         if outcome.status == "failed":

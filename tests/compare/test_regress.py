@@ -529,3 +529,28 @@ def test_mpirun_real_meep_runs_inside_process_groups(workspace):
     plain = ws["fake"].synthetic_result(regress._default_loader()(ws["cases"] / "horn-a.toml").for_tier("quick"))
     key = "directivity_2d_db"
     assert base["figures"][key]["values"][0] != pytest.approx(plain["models"]["fdtd"][key][0], abs=1e-6)
+
+
+def test_malformed_or_foreign_results_are_failed_runs(workspace, capsys):
+    fake = workspace["fake"]
+
+    def misaligned(case, out_dir, *, force=False, progress=None):
+        result = fake.synthetic_result(case)
+        result["models"]["fdtd"]["hpbw_h_deg"] = [1.0]  # 1 value for 3 frequencies
+        return result
+
+    def other_case(case, out_dir, *, force=False, progress=None):
+        return {**fake.synthetic_result(case), "case_sha256": "0" * 64}
+
+    code = regress.main(["cases/horn-a.toml"], runner=misaligned)
+    capsys.readouterr()
+    entry = _summary(workspace)["cases"][0]
+    assert code == 1 and entry["status"] == "failed" and "models.fdtd.hpbw_h_deg" in entry["reason"]
+
+    code = regress.main(["--fresh", "cases/horn-b.toml"], runner=other_case)
+    capsys.readouterr()
+    entry = _summary(workspace)["cases"][0]
+    assert code == 1 and entry["status"] == "failed" and "case_sha256" in entry["reason"]
+    # neither result entered the cache: both cases run again next time
+    assert not [p for p in (workspace["root"] / "results" / "horn-a").iterdir() if not p.name.startswith(".")]
+    assert not [p for p in (workspace["root"] / "results" / "horn-b").iterdir() if not p.name.startswith(".")]
