@@ -1,0 +1,92 @@
+"""``hornproof simulate CASE``: the FDTD model alone, one grid."""
+
+import os
+import shutil
+import sys
+import tempfile
+from pathlib import Path
+
+import numpy as np
+
+from .casefile import load_case
+from .summary import base_summary, dumps, jsonable
+
+
+def simulate_case(case, cells_per_wavelength, out_dir, *, force=False, image=False):
+    """Run one FDTD model of ``case`` and write fields.h5, s11.s1p, result.json (and model.png)."""
+    from ..atomic import write_text_atomic
+    from ..sim.output import write_fields_h5
+    from ..sim.run import simulate
+    from ..sim.touchstone import write_s1p
+    from .verify import _fdtd_figures, _is_master, _say, solver_block
+
+    _say(f"hornproof: FDTD {case.fdtd.dims}D model at {cells_per_wavelength:g} cells per wavelength")
+    result = simulate(case.horn, case.frequencies, case.fdtd, cells_per_wavelength, force=force)
+    summary = base_summary(case)
+    fdtd = _fdtd_figures(result)
+    fdtd["uncertainty"] = {}
+    fdtd["wall_thickness_modelled_mm"] = result.run.get("wall_thickness_modelled_m", np.nan) * 1e3
+    summary["models"]["fdtd"] = fdtd
+    summary["solver"] = solver_block(case, [result], [cells_per_wavelength], result.run.get("seconds_total"))
+    summary = jsonable(summary)
+    if _is_master():
+        out_dir = Path(out_dir)
+        out_dir.parent.mkdir(parents=True, exist_ok=True)
+        staging = Path(tempfile.mkdtemp(prefix=f".{out_dir.name}.partial-", dir=out_dir.parent))
+        try:
+            write_fields_h5(staging / "fields.h5", result, case_sha256=case.sha256, case_name=case.name)
+            s11 = np.asarray(result.extra["s11_real"]) + 1j * np.asarray(result.extra["s11_imag"])
+            write_s1p(staging / "s11.s1p", case.frequencies, s11, case_name=case.name,
+                      solver_version=str(result.run.get("meep_version", "")))
+            if image:
+                from ..sim.model import model_image
+
+                model_image(case.horn, case.fdtd, cells_per_wavelength, staging / "model.png",
+                            frequencies=case.frequencies)
+            write_text_atomic(staging / "result.json", dumps(summary))
+            os.chmod(staging, 0o755)
+            if out_dir.exists():
+                shutil.rmtree(out_dir)
+            os.replace(staging, out_dir)
+        except BaseException:
+            shutil.rmtree(staging, ignore_errors=True)
+            raise
+    return summary
+
+
+def format_fdtd(summary):
+    fd = summary["models"]["fdtd"]
+    two_d = summary["dims"] == 2
+    dkey = "directivity_2d_db" if two_d else "directivity_dbi"
+    gkey = "realized_gain_2d_db" if two_d else "realized_gain_dbi"
+    lines = [f"{summary['case']}: FDTD ({summary['dims']}D, {summary['solver']['finest_cells_per_wavelength']:g} "
+             f"cells per wavelength, walls modelled {summary['solver']['wall_thickness_modelled_mm'][0]:.2f} mm)",
+             f"  {'f GHz':>7} {('D2 dB' if two_d else 'D dBi'):>8} {'realized':>9} {'S11 dB':>7} {'VSWR':>6} "
+             f"{'HPBW-H':>7} {'HPBW-E':>7} {'P bal %':>8}"]
+
+    def f(v, w, d=2):
+        return "-".rjust(w) if v is None else f"{v:{w}.{d}f}"
+
+    for i, freq in enumerate(summary["frequencies_ghz"]):
+        pb = (fd.get("power_balance_error") or [None] * len(summary["frequencies_ghz"]))[i]
+        lines.append(f"  {freq:7.3f} {f(fd[dkey][i], 8)} {f((fd.get(gkey) or [None] * 99)[i], 9)} "
+                     f"{f(fd['s11_db'][i], 7, 1)} {f(fd['vswr'][i], 6)} {f(fd['hpbw_h_deg'][i], 7, 1)} "
+                     f"{f(fd['hpbw_e_deg'][i], 7, 1)} {f(None if pb is None else pb * 100, 8, 2)}")
+    lines.append(f"  run time {summary['solver']['seconds']:.1f} s; {summary['safety']}")
+    return "\n".join(lines)
+
+
+def simulate_command(args):
+    case = load_case(args.case)
+    cpw = float(args.cells_per_wavelength[0]) if args.cells_per_wavelength else float(max(case.fdtd.cells_per_wavelength))
+    out_dir = Path(args.out) if args.out else Path("results") / case.name / case.sha256[:12] / f"fdtd-{cpw:g}"
+    summary = simulate_case(case, cpw, out_dir, force=args.force, image=args.image)
+    from .verify import _is_master
+
+    if _is_master():
+        if args.json:
+            sys.stdout.write(dumps(summary))
+        else:
+            print(format_fdtd(summary))
+            print(f"  results: {out_dir}")
+    return 0
