@@ -294,6 +294,8 @@ def plot_convergence_ladder(cells_per_wavelength, values, path_stem, *, estimate
         u = _estimate_field(estimate, "uncertainty")
         kind = estimate.get("uncertainty_kind") if isinstance(estimate, dict) else estimate.uncertainty_kind
         p = _estimate_field(estimate, "observed_order")
+        used = _estimate_field(estimate, "order_used")
+        fs = _estimate_field(estimate, "safety_factor")
         if np.isfinite(u) and np.isfinite(fine):
             band_label = ("GCI band on the finest grid (±)" if kind == "gci"
                           else "Bound from the ladder spread (±), not an error estimate")
@@ -302,16 +304,22 @@ def plot_convergence_ladder(cells_per_wavelength, values, path_stem, *, estimate
         if np.isfinite(ext) and status not in ("oscillatory", "divergent"):
             ax.plot([0.0, h[0]], [ext, phi[0]], ":", color=MODEL_COLOURS["exact_phase"], linewidth=1.2)
             ax.plot([0.0], [ext], marker="*", markersize=12, color=MODEL_COLOURS["exact_phase"],
-                    linestyle="none", label="Richardson-extrapolated value (h → 0)")
-        lines = [f"Ladder: {status}"]
+                    linestyle="none",
+                    label="Richardson-extrapolated value (h → 0"
+                          + (f", order {used:g})" if np.isfinite(used) else ")"))
+        first = f"Ladder: {status}"
         if np.isfinite(p):
-            lines.append(f"observed order p = {p:.2f}")
-        if np.isfinite(u):
-            lines.append(f"uncertainty ± {u:.3g} {unit}" + ("" if kind == "gci" else " (spread bound)"))
-        shown = [flag for flag in flags if flag != "spread-bound"]  # already said above
+            first += f" · observed order p = {p:.2f}"
+        if np.isfinite(used) and not (np.isfinite(p) and abs(used - p) < 1e-12):
+            first += f" · order used {used:g}"
+        shown = [flag for flag in flags if flag != "spread-bound"]  # said in the second line
         if shown:
-            lines.append("flags: " + ", ".join(shown))
-        status_line = " · ".join(lines)
+            first += " (" + ", ".join(shown) + ")"
+        second = ""
+        if np.isfinite(u):
+            second = f"uncertainty ± {u:.3g} {unit}"
+            second += f", safety factor {fs:g}" if kind == "gci" and np.isfinite(fs) else " (spread bound)"
+        status_line = first + ("\n" + second if second else "")
     ax.set_xlim(0.0, h.max() * 1.12)
     ax.set_xlabel("Cell size h/λ (= 1 / cells per wavelength)")
     ax.set_ylabel(f"{quantity} ({unit})")
