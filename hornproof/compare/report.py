@@ -127,6 +127,8 @@ def _number(value, digits=3):
         return _esc(value)
     if not math.isfinite(value):
         return "—"
+    if round(value, digits) == 0:
+        value = 0.0  # no "−0.000"
     return f"{value:.{digits}f}".replace("-", "\u2212")
 
 
@@ -184,7 +186,7 @@ def _value_text(value):
     if isinstance(value, int):
         return _esc(value)
     if isinstance(value, float):
-        return _number(value, 4)
+        return _esc(f"{value:.6g}").replace("-", "\u2212") if math.isfinite(value) else "—"
     if isinstance(value, (list, tuple)):
         return ", ".join(_value_text(v) for v in value)
     if isinstance(value, dict):

@@ -154,3 +154,11 @@ def test_sweep_report(tmp_path):
     (tmp_path / "sweep.json").write_text(json.dumps({**sweep, "schema": "hornproof.result/1"}))
     with pytest.raises(InputError, match="hornproof.sweep/1"):
         report.build_sweep_report(tmp_path)
+
+
+def test_number_formatting_in_tables():
+    # Typographic minus (Unicode U+2212), no negative zero, missing values as a dash.
+    assert report._number(-0.2) == "\u22120.200"
+    assert report._number(-0.0001) == "0.000"
+    assert report._number(None) == "—" and report._number(float("nan")) == "—"
+    assert report._value_text(20.0) == "20" and report._value_text(True) == "yes"
