@@ -88,6 +88,7 @@ def save_figure(fig, path_stem):
         try:
             metadata = {"Date": None} if fmt == "svg" else None
             fig.savefig(temporary, format=fmt, bbox_inches="tight", metadata=metadata)
+            os.chmod(temporary, 0o644)  # mkstemp makes 0600; figures are meant to be shared
             os.replace(temporary, final)
         except BaseException:
             if os.path.exists(temporary):

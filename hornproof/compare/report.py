@@ -156,6 +156,7 @@ def _write_atomic(path, text):
     try:
         with os.fdopen(handle, "w", encoding="utf-8") as fh:
             fh.write(text)
+        os.chmod(temporary, 0o644)  # mkstemp makes 0600; a report is meant to be shared
         os.replace(temporary, path)
     except BaseException:
         if os.path.exists(temporary):

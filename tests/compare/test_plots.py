@@ -29,11 +29,10 @@ def check_pair(paths, *texts):
     assert width > 400 and height > 300
     root = ET.parse(svg).getroot()
     assert root.tag.endswith("svg")
-    # matplotlib writes text as glyph paths by default; the labels survive as comments/ids only
-    # with svg.fonttype = "none", so check the text through the PNG-independent figure labels
-    # in the SVG source when present.
     directory = os.path.dirname(png)
     assert not [n for n in os.listdir(directory) if n.startswith(".tmp-")]
+    # Readable by others (the temporary file's private 0600 mode is not kept).
+    assert os.stat(png).st_mode & 0o044 == 0o044 and os.stat(svg).st_mode & 0o044 == 0o044
     return png, svg
 
 

@@ -7,6 +7,7 @@ escaped, and an unknown schema is refused with a hint.
 """
 
 import json
+import os
 import re
 
 import numpy as np
@@ -76,6 +77,7 @@ def test_report_self_contained_verdicts_first_and_safety(tmp_path):
     result = synthetic_result(tmp_path)
     path = report.build_report(tmp_path)
     text = open(path, encoding="utf-8").read()
+    assert os.stat(path).st_mode & 0o044 == 0o044  # readable by others
     # No external references of any kind: no http(s) URL anywhere, no src/href to a file.
     assert not re.search(r"https?://", text)
     assert not re.search(r"(src|href)\s*=\s*['\"](?!data:)", text)
