@@ -36,6 +36,15 @@ import numpy as np
 VERDICTS = ("agrees", "disagrees", "unresolved", "missing")
 
 
+def _float_array(values):
+    """Float array from a number or a (possibly nested) list; JSON null (None) -> NaN."""
+    if values is None:
+        return np.array(np.nan)
+    if isinstance(values, (list, tuple)):
+        return np.array([np.nan if v is None else v for v in values], dtype=float)
+    return np.asarray(values, dtype=float)
+
+
 def verdict(difference, tolerance, uncertainty=0.0):
     """Verdict on one difference.
 
@@ -79,8 +88,8 @@ def verdicts(differences, tolerance, uncertainties=0.0):
     list of str
         One verdict per element, see :func:`verdict`.
     """
-    d = np.atleast_1d(np.asarray(differences, dtype=float))
-    u = np.broadcast_to(np.asarray(uncertainties, dtype=float), d.shape)
+    d = np.atleast_1d(_float_array(differences))
+    u = np.broadcast_to(_float_array(uncertainties), d.shape)
     return [verdict(di, tolerance, ui) for di, ui in zip(d, u)]
 
 
@@ -158,15 +167,15 @@ def breakdown_threshold(parameter_values, errors, uncertainties, tolerance):
     The interpolated quantity is the margin m = |error| − uncertainty − tolerance; the
     threshold is the zero of m between the two samples (linear interpolation, common practice).
     """
-    x = np.asarray(parameter_values, dtype=float)
-    e = np.asarray(errors, dtype=float)
-    u = np.broadcast_to(np.asarray(uncertainties, dtype=float), e.shape)
+    x = _float_array(parameter_values)
+    e = _float_array(errors)
+    u = np.broadcast_to(_float_array(uncertainties), e.shape)
     if x.ndim != 1 or e.shape != x.shape:
         raise ValueError(f"errors: shape {e.shape} must match parameter_values shape {x.shape}")
     tolerance = float(tolerance)
     if not np.isfinite(tolerance) or tolerance < 0:
         raise ValueError(f"tolerance: must be finite and non-negative, got {tolerance}")
-    if np.any(u < 0):
+    if np.any(u[np.isfinite(u)] < 0):
         raise ValueError("uncertainties: must be non-negative")
     if np.unique(x).size != x.size:
         raise ValueError("parameter_values: values must be distinct")

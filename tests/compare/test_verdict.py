@@ -109,3 +109,9 @@ def test_comparison_block_by_hand():
     assert block["overall"] == "unresolved"
     with pytest.raises(ValueError, match="tolerances"):
         comparison_block([10e9], models, {"gain_typo": 0.5})
+
+
+def test_json_nulls_are_accepted():
+    # Lists read back from result.json carry None for NaN: treated as unknown, not an error.
+    assert verdicts([0.1, None], 0.5, [None, 0.1]) == ["unresolved", "missing"]
+    assert breakdown_threshold([1.0, 2.0, 3.0], [0.1, None, 0.9], [0.0, 0.0, None], 0.5) is None
