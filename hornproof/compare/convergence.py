@@ -370,6 +370,12 @@ class ConvergenceEstimate:
         }
 
 
+def _float_array(values):
+    """Float array from numbers or (nested) lists; JSON null (None) -> NaN."""
+    array = np.asarray(values, dtype=object)
+    return np.where(array == None, np.nan, array).astype(float)  # noqa: E711 (elementwise)
+
+
 def _spread(values):
     return float(np.max(values) - np.min(values))
 
@@ -405,7 +411,7 @@ def estimate_ladder(cell_sizes, values, *, formal_order=1.0, noise_floor=0.0, mi
     Celik et al. (2008); Roache (1997). See the module docstring for the decisions made here.
     """
     h = np.asarray(cell_sizes, dtype=float)
-    phi = np.asarray(values, dtype=float)
+    phi = _float_array(values)
     if h.ndim != 1 or phi.shape != h.shape:
         raise ValueError(f"values: shape {phi.shape} must match cell_sizes shape {h.shape}")
     if np.any(~np.isfinite(h)) or np.any(h <= 0):
@@ -534,7 +540,7 @@ def grid_convergence(values, *, cells_per_wavelength=None, cell_sizes=None, form
         h = cell_sizes_from_cells_per_wavelength(cells_per_wavelength)
     else:
         h = np.asarray(cell_sizes, dtype=float)
-    phi = np.asarray(values, dtype=float)
+    phi = _float_array(values)
     if phi.ndim == 1:
         phi = phi[:, None]
     if phi.ndim != 2 or phi.shape[0] != h.shape[0]:

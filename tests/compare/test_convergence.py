@@ -187,6 +187,9 @@ def test_converged_single_and_bad_input():
     assert single.status == "single" and math.isnan(single.uncertainty)
     nan_dropped = cv.estimate_ladder([1.0, 2.0, 4.0], [1.0, np.nan, 1.2])
     assert nan_dropped.status == "two-grid"
+    # JSON null (a grid that produced no value) is dropped the same way
+    from_json = cv.grid_convergence([[1.0, 2.0], [None, 2.1], [1.2, 2.3]], cell_sizes=[1.0, 2.0, 4.0])
+    assert from_json[0].status == "two-grid" and from_json[1].status == "monotonic"
     with pytest.raises(ValueError, match="cell_sizes"):
         cv.estimate_ladder([1.0, 1.0], [1.0, 2.0])
     with pytest.raises(ValueError, match="cells_per_wavelength"):
