@@ -48,6 +48,12 @@ def test_pattern_overlay(tmp_path):
         gaussian_db(theta, 17.4, 25.5) + 0.3 * np.sin(theta / 7), tmp_path / "pattern_h_plane",
         fdtd_uncertainty_db=0.25, plane="H", frequency=10.5e9, case_title="Synthetic test horn")
     check_pair(paths)
+    # E-plane of a 2D-less model: only FDTD given, array uncertainty, unit dB.
+    check_pair(plots.plot_pattern_overlay(
+        theta, None, None, gaussian_db(theta, 11.0, 60.0), tmp_path / "pattern_e_plane",
+        fdtd_uncertainty_db=np.full(theta.shape, 0.4), plane="E", unit="dB", case_title="Synthetic"))
+    with pytest.raises(ValueError, match="closed_form_dbi"):
+        plots.plot_pattern_overlay(theta, None, None, None, tmp_path / "x")
     with pytest.raises(ValueError, match="plane"):
         plots.plot_pattern_overlay(theta, None, None, theta, tmp_path / "x", plane="X")
 
