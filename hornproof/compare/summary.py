@@ -11,14 +11,12 @@ import math
 import numpy as np
 
 from .. import __version__
+from .safety import RF_EXPOSURE_CAUTION
 
 SCHEMA = "hornproof.result/1"
 
-SAFETY_NOTE = (
-    "Design aid only, not a substitute for measurement. RF exposure near an energised horn can "
-    "exceed safe limits: observe IEEE C95.1-2019 and ICNIRP (2020) limits, local regulations "
-    "and licensed practice."
-)
+#: the RF-exposure caution carried by every summary and report (one wording, in safety.py)
+SAFETY_NOTE = RF_EXPOSURE_CAUTION
 
 
 def jsonable(value):
