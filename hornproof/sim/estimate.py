@@ -29,7 +29,13 @@ empty vacuum cells with a Gaussian Ey point source, PML of 0 / 0.5 / 1 / 1.5 uni
 
 Material (PEC walls) and the DFT updates add little per step in these probes (100 near-to-far
 frequencies cost +6 % time); a horn run also spends time in the near-to-far transform after
-stepping, which this estimate does not include.
+stepping, which ``seconds`` does not include.
+
+Check against ``hornproof.sim.run.simulate`` (bench/bench_sim.py --only memory, 2026-12-02,
+invented WR-90 H-plane horn, 16 cells per wavelength): peak RSS at the end of stepping was
+1.01 / 1.05 / 1.06 × this estimate (mirrors / none / none with 5 frequencies; 57 k – 273 k
+cells); the post-processing afterwards (far-field evaluation) added a further 42–46 MiB,
+hence :data:`POST_PROCESSING_BYTES` in ``peak_memory_bytes``.
 """
 
 import json
@@ -62,6 +68,8 @@ MEMORY_PER_PML_CELL = {3: 103.6, 2: 20.0}
 MEMORY_PER_SURFACE_CELL_FREQUENCY = {3: 105.6, 2: 48.0}
 PML_TIME_WEIGHT = {3: 13.5 / 9.3, 2: 2.4 / 3.1}
 TIME_FRACTION_OF_3D = {3: 1.0, 2: 0.34}
+#: extra resident memory of simulate's post-processing, measured by bench_sim (see notes)
+POST_PROCESSING_BYTES = 46 * 2**20
 #: interior 3D cell-steps per second measured here (1 / 9.3 ns); used when no cache exists
 DEFAULT_STEPPING_RATE = 1.0 / 9.3e-9
 
@@ -77,12 +85,14 @@ class ResourceEstimate:
     cells : int
         Grid cells stored (after symmetry), PML included.
     memory_bytes : float
-        Peak resident memory of the process, bytes.
+        Resident memory of the process while stepping (Python, Meep, fields, DFT), bytes.
     timesteps : int
     seconds : float
         Stepping time, s (near-to-far transform and set-up not included).
     pml_cells : int
         Of ``cells``, those inside the PML.
+    post_processing_bytes : float
+        Further memory taken after stepping (far-field evaluation), bytes.
     """
 
     cells: int
@@ -90,10 +100,12 @@ class ResourceEstimate:
     timesteps: int
     seconds: float
     pml_cells: int = 0
+    post_processing_bytes: float = POST_PROCESSING_BYTES
 
     @property
-    def memory_gib(self):
-        return self.memory_bytes / 2**30
+    def peak_memory_bytes(self):
+        """Peak of the whole run: stepping memory plus the post-processing's."""
+        return self.memory_bytes + self.post_processing_bytes
 
 
 def courant_timesteps(run_time, resolution_cells_per_m, courant=MEEP_COURANT):
@@ -195,7 +207,8 @@ def available_memory_bytes(meminfo="/proc/meminfo"):
 
 
 def check_fits(estimate, force=False, *, available=None):
-    """Raise ``RunError`` if the run needs more memory than is available (unless ``force``).
+    """Raise ``RunError`` if the run's peak memory (stepping + post-processing) exceeds what
+    is available (unless ``force``).
 
     Parameters
     ----------
@@ -213,8 +226,8 @@ def check_fits(estimate, force=False, *, available=None):
     available = available_memory_bytes() if available is None else available
     if available is None or force:
         return available
-    if estimate.memory_bytes > available:
-        raise RunError(f"needs {estimate.memory_bytes / 2**30:.1f} GiB, "
+    if estimate.peak_memory_bytes > available:
+        raise RunError(f"needs {estimate.peak_memory_bytes / 2**30:.1f} GiB, "
                        f"{available / 2**30:.1f} GiB available; use --force to run anyway")
     return available
 

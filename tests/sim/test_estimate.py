@@ -54,12 +54,16 @@ def test_courant_step_by_hand():
 
 
 def test_check_fits_refuses_too_big_unless_forced():
-    estimate = ResourceEstimate(cells=10, memory_bytes=30 * 2**30, timesteps=1, seconds=1.0)
+    estimate = ResourceEstimate(cells=10, memory_bytes=30 * 2**30 - 2**20, timesteps=1,
+                                seconds=1.0, post_processing_bytes=2**20)
     with pytest.raises(RunError, match=r"needs 30\.0 GiB, 2\.0 GiB available; use --force"):
         check_fits(estimate, available=2 * 2**30)
     assert RunError.exit_code == 3  # the command-line contract: 3 = the run failed
     assert check_fits(estimate, force=True, available=2 * 2**30) == 2 * 2**30
     assert check_fits(estimate, available=64 * 2**30) == 64 * 2**30
+    # the decision uses the peak (stepping + post-processing), not the stepping part alone
+    with pytest.raises(RunError):
+        check_fits(estimate, available=30 * 2**30 - 2**19)
 
 
 @pytest.mark.skipif(not os.path.exists("/proc/meminfo"), reason="Linux only")
