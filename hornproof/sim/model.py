@@ -9,12 +9,10 @@ z = flare_length, H-plane xz, TE10 electric field along y. 2D (principal-plane m
 sectoral horn): Meep x = the flared transverse coordinate (horn x for an H-plane sectoral horn,
 horn y for an E-plane one), Meep y = horn z.
 
-Walls are closed PEC slabs (``mp.metal``): four ``Block`` walls for the feed guide and four
-``Prism`` walls for the flare. Each flare wall is extruded across the full outer size of the
-horn so that neighbouring walls overlap at the corners (no gap at any edge); two vacuum
-"trim" prisms then cut away the part of each extrusion that sticks out beyond the outer
-surface of the crossing walls. The modelled wall thickness is the horn's, raised to at least
-two cells (a thinner PEC wall lets fields through between grid points).
+Walls are closed PEC (``mp.metal``) staircases on the grid, built as a solid minus its inside
+(see ``horn_geometry`` for why every face sits on a grid plane). The modelled sizes are the
+horn's rounded to whole cells; the wall thickness is the horn's rounded to whole cells and at
+least two cells (a thinner PEC wall lets fields through between grid points).
 """
 
 from dataclasses import dataclass
@@ -99,11 +97,23 @@ class Layout:
         return mp.Vector3(transverse[0], dz)
 
 
+def _cells(length, cell):
+    """Nearest whole number of cells (at least 1) in ``length``."""
+    return max(1, int(round(length / cell)))
+
+
+def _even_cells(length, cell):
+    n = int(np.ceil(length / cell - 1e-9))
+    return n + (n % 2)
+
+
 def plan_layout(horn, frequencies, settings, cells_per_wavelength):
     """Lay out the cell for ``horn`` at ``frequencies`` (Hz) and a grid density at f_max.
 
-    Raises ``ValueError`` naming the parameter for a band the feed guide cannot carry or a
-    2D model asked of a pyramidal horn.
+    Every metal face is put on a grid plane (see ``horn_geometry``): the modelled guide, aperture
+    and flare length are the horn's rounded to whole cells, and the walls whole cells thick
+    (at least ``MIN_WALL_CELLS``). Raises ``ValueError`` naming the parameter for a band the feed
+    guide cannot carry or a 2D model asked of a pyramidal horn.
     """
     frequencies = np.atleast_1d(np.asarray(frequencies, dtype=float))
     if frequencies.size == 0 or not np.all(np.isfinite(frequencies)) or np.any(frequencies <= 0):
@@ -124,48 +134,74 @@ def plan_layout(horn, frequencies, settings, cells_per_wavelength):
             transverse = "e"
         else:
             raise ValueError("settings.dims = 2 models a sectoral horn; a pyramidal horn needs dims = 3")
-    cutoff_ok = settings.dims == 2 and transverse == "e"
-    guide_wl_min = te10_guide_wavelength(f_min, horn.guide_a)
-    if not np.isfinite(guide_wl_min):
-        if not cutoff_ok:
-            raise ValueError(f"frequencies: {f_min / 1e9:.4g} GHz is below the TE10 cutoff of the feed guide")
-    if cutoff_ok:
+    tem = settings.dims == 2 and transverse == "e"
+    if tem:
         guide_wl_min = SPEED_OF_LIGHT / f_min  # TEM between parallel plates
-    a, b = horn.guide_a / unit, horn.guide_b / unit
-    big_a, big_b = horn.aperture_a / unit, horn.aperture_b / unit
-    length = horn.flare_length / unit
-    wall = max(horn.wall_thickness / unit, MIN_WALL_CELLS * cell)
+    else:
+        guide_wl_min = te10_guide_wavelength(f_min, horn.guide_a)
+        if not np.isfinite(guide_wl_min):
+            raise ValueError(f"frequencies: {f_min / 1e9:.4g} GHz is below the TE10 cutoff of the feed guide")
+    # modelled sizes: half-widths and lengths in whole cells
+    a = 2 * _cells(horn.guide_a / unit / 2, cell) * cell
+    b = 2 * _cells(horn.guide_b / unit / 2, cell) * cell
+    big_a = max(a, 2 * _cells(horn.aperture_a / unit / 2, cell) * cell)
+    big_b = max(b, 2 * _cells(horn.aperture_b / unit / 2, cell) * cell)
+    if horn.kind == "h-sectoral":
+        big_b = b
+    if horn.kind == "e-sectoral":
+        big_a = a
+    length = _cells(horn.flare_length / unit, cell) * cell
+    wall = max(MIN_WALL_CELLS, _cells(horn.wall_thickness / unit, cell)) * cell
     wl_min = f_max / f_min  # free-space wavelength at f_min in Meep units
     pml = settings.pml_wavelengths * wl_min
     pml_back = 2.0 * pml  # guided waves near cutoff meet the PML at a grazing angle: double it
     padding = max(settings.padding_wavelengths, 4 * cell)
     feed = max(settings.feed_length_wavelengths * guide_wl_min / unit, 2 * FIT_MARGIN_WAVELENGTHS + 4 * cell)
-    source_z = -feed
+    source_z = -_cells(feed, cell) * cell
     fit_z = (source_z + FIT_MARGIN_WAVELENGTHS, -FIT_MARGIN_WAVELENGTHS)
     if fit_z[1] - fit_z[0] < 4 * cell:
         fit_z = (source_z + 0.25 * feed, -0.25 * feed)
-    flux_z = 0.5 * (fit_z[0] + fit_z[1])
-    slope_h = (big_a - a) / (2 * length)
-    slope_e = (big_b - b) / (2 * length)
-    wall_h = wall * np.hypot(1.0, slope_h)  # horizontal thickness of the sloped H-plane walls
-    wall_e = wall * np.hypot(1.0, slope_e)
-    outer = (big_a / 2 + wall_h, big_b / 2 + wall_e)
+    flux_z = (round(0.5 * (fit_z[0] + fit_z[1]) / cell) + 0.5) * cell
+    walls = wall_outline(a, b, big_a, big_b, length, wall, cell)
+    outer = (walls["outer_x"].max(), walls["outer_y"].max())
     if settings.dims == 3:
         box_half = (outer[0] + padding, outer[1] + padding)
-        transverse_cell = tuple(2 * (h + padding + pml) for h in box_half)
+        transverse_cell = tuple(_even_cells(2 * (h + padding + pml), cell) * cell for h in box_half)
     else:
         box_half = ((outer[0] if transverse == "h" else outer[1]) + padding,)
-        transverse_cell = (2 * (box_half[0] + padding + pml),)
+        transverse_cell = (_even_cells(2 * (box_half[0] + padding + pml), cell) * cell,)
     box_z = (-padding, length + padding)
-    z_low = source_z - SOURCE_TAIL_WAVELENGTHS - pml_back
-    z_high = box_z[1] + padding + pml
-    cell_size = transverse_cell + (z_high - z_low,)
+    z_low = np.floor((source_z - SOURCE_TAIL_WAVELENGTHS - pml_back) / cell) * cell
+    n_z = _even_cells(box_z[1] + padding + pml - z_low, cell)
+    cell_size = transverse_cell + (n_z * cell,)
+    # Meep's grid planes sit at whole cells from the cell centre when the count is even; a centre
+    # a whole number of cells from z = 0 keeps the throat and every layer on a grid plane
     return Layout(
         dims=settings.dims, transverse=transverse, unit_length=unit, resolution=float(cells_per_wavelength),
         guide_a=a, guide_b=b, aperture_a=big_a, aperture_b=big_b, flare_length=length, wall=wall,
         pml=pml, pml_back=pml_back, padding=padding, source_z=source_z, fit_z=fit_z, flux_z=flux_z,
-        box_half=box_half, box_z=box_z, cell_size=cell_size, cell_center_z=0.5 * (z_low + z_high),
+        box_half=box_half, box_z=box_z, cell_size=cell_size, cell_center_z=z_low + n_z * cell / 2,
     )
+
+
+def wall_outline(a, b, big_a, big_b, length, wall, cell):
+    """Staircase of the flare: per layer of one cell in z, inner and outer half-widths.
+
+    Inner half-widths follow the straight flare at the layer's mid-plane, rounded to whole
+    cells; the wall is ``wall`` thick normal to the sloped wall (so wider horizontally),
+    rounded up to whole cells. Returns a dict of arrays over the layers: ``z0`` (layer start),
+    ``inner_x``, ``outer_x``, ``inner_y``, ``outer_y`` (Meep units).
+    """
+    n = int(round(length / cell))
+    mid = (np.arange(n) + 0.5) * cell
+    out = {"z0": np.arange(n) * cell}
+    for name, small, big in (("x", a, big_a), ("y", b, big_b)):
+        slope = (big - small) / (2 * length)
+        inner = np.round((small / 2 + slope * mid) / cell) * cell
+        thick = max(MIN_WALL_CELLS, np.ceil(wall * np.hypot(1.0, slope) / cell - 1e-9)) * cell
+        out["inner_" + name] = np.maximum.accumulate(inner)
+        out["outer_" + name] = out["inner_" + name] + thick
+    return out
 
 
 def boundary_layers(layout):
@@ -181,82 +217,72 @@ def boundary_layers(layout):
     return layers
 
 
-def _wall_polygon(inner_throat, inner_aperture, thickness, length, overlap):
-    """(u, z) outline of one flare wall on the +u side, from z = -overlap to the aperture."""
-    return [(inner_throat, -overlap), (inner_throat, 0.0), (inner_aperture, length),
-            (inner_aperture + thickness, length), (inner_throat + thickness, 0.0),
-            (inner_throat + thickness, -overlap)]
+def _block(layout, half, z0, z1, material):
+    """Block from its transverse half sizes and axial extent (horn z, Meep units)."""
+    import meep as mp
+
+    if layout.dims == 3:
+        size = mp.Vector3(2 * half[0], 2 * half[1], z1 - z0)
+    else:
+        size = mp.Vector3(2 * half[0], z1 - z0, mp.inf)
+    return mp.Block(center=layout.point((0, 0), 0.5 * (z0 + z1)), size=size, material=material)
 
 
-def _trim_polygon(outer_throat, outer_aperture, far, length, overlap):
-    return [(outer_throat, -overlap), (outer_throat, 0.0), (outer_aperture, length),
-            (far, length), (far, -overlap)]
+def horn_geometry(layout, *, guide_only=False):
+    """List of Meep blocks: the feed guide and the staircased flare, metal then vacuum.
 
+    Meep, with no smoothing, decides "metal or not" separately at each field component's own
+    grid point. A face that does not sit on a grid plane then zeroes a normal E component
+    inside the guide while the tangential components next to it stay free — an artificial
+    loading that made the TE10 guide carry a wave *slower* than light (β > k; seen here at
+    some resolutions). So every face is put a quarter cell off a grid plane: metal blocks
+    reach a quarter cell beyond their whole-cell outline, vacuum blocks stop a quarter cell
+    short of it. Then exactly the tangential E on the outline plane is zero and the normal E
+    half a cell inside is free, as for a PEC wall on that plane (checked by the TE10 β test).
 
-def horn_geometry(layout, *, guide_only=False, guide_end=None):
-    """List of Meep objects: feed guide walls and flare walls (PEC), plus vacuum trims.
-
-    ``guide_only`` builds a straight guide running from the back PML to ``guide_end`` (Meep
-    units of horn z; default: through the whole cell), for feed checks without a horn.
+    The horn is built as layers one cell long in z: a metal block out to the outer surface
+    and a vacuum block carving the inside; vacuum blocks come last and each reaches a quarter
+    cell past the layer's front plane, so the step faces between layers are metal only where
+    the narrower layer's wall is. Corners are closed by construction (solid minus inside).
+    ``guide_only`` builds just a straight guide through the whole cell.
     """
     import meep as mp
 
-    lo = layout.cell_center_z - layout.cell_size[-1] / 2
-    hi = layout.cell_center_z + layout.cell_size[-1] / 2
     cell = 1.0 / layout.resolution
-    overlap = cell
-    t = layout.wall
-    end = (hi if guide_end is None else guide_end) if guide_only else overlap
-    guide_len = end - lo
-    zc = 0.5 * (lo + end)
-    objects = []
+    q = 0.25 * cell
+    lo = layout.cell_center_z - layout.cell_size[-1] / 2 - cell
+    hi = layout.cell_center_z + layout.cell_size[-1] / 2 + cell
+    a, b, t = layout.guide_a, layout.guide_b, layout.wall
     if layout.dims == 3:
-        a, b = layout.guide_a, layout.guide_b
-        for s in (-1, 1):
-            objects.append(mp.Block(center=layout.point((s * (a / 2 + t / 2), 0), zc),
-                                    size=mp.Vector3(t, b + 2 * t, guide_len), material=mp.metal))
-            objects.append(mp.Block(center=layout.point((0, s * (b / 2 + t / 2)), zc),
-                                    size=mp.Vector3(a + 2 * t, t, guide_len), material=mp.metal))
-        if guide_only:
-            return objects
-        length = layout.flare_length
-        big_a, big_b = layout.aperture_a, layout.aperture_b
-        t_h = t * np.hypot(1.0, (big_a - a) / (2 * length))
-        t_e = t * np.hypot(1.0, (big_b - b) / (2 * length))
-        x_out, y_out = big_a / 2 + t_h, big_b / 2 + t_e
-        far_x, far_y = x_out + 2 * cell, y_out + 2 * cell
-        poly_h = _wall_polygon(a / 2, big_a / 2, t_h, length, overlap)
-        poly_e = _wall_polygon(b / 2, big_b / 2, t_e, length, overlap)
-        for s in (-1, 1):
-            # H-plane walls (x sides), outline in xz, extruded along y across the full height
-            verts = [layout.point((s * u, -y_out), z) for u, z in poly_h]
-            objects.append(mp.Prism(verts, height=float(2 * y_out), axis=mp.Vector3(0, 1, 0), material=mp.metal))
-            # E-plane walls (y sides), outline in yz, extruded along x across the full width
-            verts = [layout.point((-x_out, s * u), z) for u, z in poly_e]
-            objects.append(mp.Prism(verts, height=float(2 * x_out), axis=mp.Vector3(1, 0, 0), material=mp.metal))
-        for s in (-1, 1):
-            verts = [layout.point((-far_x, s * u), z)
-                     for u, z in _trim_polygon(b / 2 + t_e, y_out, far_y, length, overlap)]
-            objects.append(mp.Prism(verts, height=float(2 * far_x), axis=mp.Vector3(1, 0, 0), material=mp.air))
-            verts = [layout.point((s * u, -far_y), z)
-                     for u, z in _trim_polygon(a / 2 + t_h, x_out, far_x, length, overlap)]
-            objects.append(mp.Prism(verts, height=float(2 * far_y), axis=mp.Vector3(0, 1, 0), material=mp.air))
-        return objects
-    # 2D: two parallel-plate walls in the flared plane
-    width = layout.guide_a if layout.transverse == "h" else layout.guide_b
-    big = layout.aperture_a if layout.transverse == "h" else layout.aperture_b
-    for s in (-1, 1):
-        objects.append(mp.Block(center=layout.point((s * (width / 2 + t / 2), 0), zc),
-                                size=mp.Vector3(t, guide_len, mp.inf), material=mp.metal))
+        inner_g, outer_g = (a / 2, b / 2), (a / 2 + t, b / 2 + t)
+    else:
+        width = a if layout.transverse == "h" else b
+        inner_g, outer_g = (width / 2,), (width / 2 + t,)
+    end = hi if guide_only else 0.0
+    metal = [_block(layout, [h + q for h in outer_g], lo, end + q, mp.metal)]
+    vacuum = [_block(layout, [h - q for h in inner_g], lo, end + q, mp.air)]
     if guide_only:
-        return objects
-    length = layout.flare_length
-    t_u = t * np.hypot(1.0, (big - width) / (2 * length))
-    poly = _wall_polygon(width / 2, big / 2, t_u, length, overlap)
-    for s in (-1, 1):
-        verts = [layout.point((s * u, 0), z) for u, z in poly]
-        objects.append(mp.Prism(verts, height=mp.inf, material=mp.metal))
-    return objects
+        return metal + vacuum
+    walls = wall_outline(layout.guide_a, layout.guide_b, layout.aperture_a, layout.aperture_b,
+                         layout.flare_length, layout.wall, cell)
+    if layout.dims == 3:
+        keys = (("inner_x", "inner_y"), ("outer_x", "outer_y"))
+    else:
+        axis = "x" if layout.transverse == "h" else "y"
+        keys = (("inner_" + axis,), ("outer_" + axis,))
+    rows = [tuple(walls[k][i] for k in keys[0] + keys[1]) for i in range(walls["z0"].size)]
+    start = 0
+    n_t = len(keys[0])
+    for i in range(1, len(rows) + 1):
+        if i < len(rows) and np.allclose(rows[i], rows[start]):
+            continue
+        z0 = walls["z0"][start]
+        z1 = walls["z0"][i - 1] + cell
+        inner, outer = rows[start][:n_t], rows[start][n_t:]
+        metal.append(_block(layout, [h + q for h in outer], z0 - q, z1 + q, mp.metal))
+        vacuum.append(_block(layout, [h - q for h in inner], z0 + q, z1 + q, mp.air))
+        start = i
+    return metal + vacuum
 
 
 def symmetries(layout, enabled=True):
@@ -311,7 +337,9 @@ def model_image(horn, settings, cells_per_wavelength, path, frequencies=None):
         fig, axes = plt.subplots(1, len(cuts), figsize=(5 * len(cuts), 6), squeeze=False)
         z0 = layout.cell_center_z - layout.cell_size[-1] / 2
         for ax, (name, eps, width) in zip(axes[0], cuts):
-            metal = (eps < 0).astype(float)
+            # get_array averages the Yee-point materials of each voxel: a voxel with some
+            # metal points reads neither 1 nor < 0; draw those half-dark (wall edges)
+            metal = np.where(eps < 0, 1.0, np.where(np.abs(eps - 1.0) > 1e-6, 0.5, 0.0))
             extent = [z0 * mm, (z0 + layout.cell_size[-1]) * mm, -width / 2 * mm, width / 2 * mm]
             ax.imshow(metal, origin="lower", extent=extent, cmap="Greys", aspect="equal", interpolation="nearest")
             for edge in (layout.pml, ):
