@@ -1,0 +1,101 @@
+"""The command line: exit codes, one-line errors, the predict JSON schema, --help per command.
+
+The contract checked here is ARCHITECTURE.md's (exit codes 0/1/2/3, one-line errors without a
+traceback, `hornproof.result/1` with every list aligned with `frequencies_ghz`).
+"""
+
+import json
+import subprocess
+import sys
+from pathlib import Path
+
+import pytest
+
+from hornproof.compare.cli import main
+
+ROOT = Path(__file__).resolve().parents[2]
+DEMO = ROOT / "cases" / "demo-h-sectoral.toml"
+
+
+def run_cli(*args):
+    return subprocess.run([sys.executable, "-m", "hornproof.compare.cli", *args], capture_output=True,
+                          text=True, cwd=ROOT, timeout=120)
+
+
+def test_predict_json_follows_the_result_schema(capsys):
+    assert main(["predict", str(DEMO), "--json"]) == 0
+    summary = json.loads(capsys.readouterr().out)
+    assert summary["schema"] == "hornproof.result/1"
+    nf = len(summary["frequencies_ghz"])
+    assert nf == 5
+    for key in ("apex_h_mm", "apex_e_mm", "flare_half_angle_h_deg", "flare_half_angle_e_deg",
+                "phase_error_h_wl", "phase_error_e_wl"):
+        assert key in summary["geometry"]
+    for model in ("closed_form", "exact_phase"):
+        figures = summary["models"][model]
+        for key, values in figures.items():
+            if isinstance(values, list):
+                assert len(values) == nf, (model, key)
+    # geometry of the demo horn by hand: R_h = L A / (A - a) = 90 * 90 / (90 - 22.86) mm
+    assert summary["geometry"]["apex_h_mm"] == pytest.approx(90 * 90 / (90 - 22.86), abs=1e-5)
+
+
+def test_predict_table_for_people(capsys):
+    assert main(["predict", str(DEMO)]) == 0
+    out = capsys.readouterr().out
+    assert "closed form" in out and "exact path" in out
+    assert "IEEE C95.1-2019" in out
+
+
+@pytest.mark.parametrize("args, code", [
+    (["predict", "no-such-case.toml"], 2),
+    (["predict", str(ROOT / "tests" / "compare" / "malformed")], 2),
+    (["verify", str(DEMO), "--cells-per-wavelength", "2,3"], 2),
+    (["design", "gain", "--gain-dbi", "1", "--frequency-ghz", "10", "--waveguide", "WR-90"], 2),
+    (["design", "gain", "--gain-dbi", "20", "--frequency-ghz", "10", "--waveguide", "WR-9000"], 2),
+    (["report", "/nonexistent-folder"], 2),
+])
+def test_bad_input_is_one_line_and_exit_2(args, code):
+    done = run_cli(*args)
+    assert done.returncode == code, done.stderr
+    lines = [line for line in done.stderr.splitlines() if line.strip() and "Warning" not in line
+             and "subnormal" not in line and "setattr" not in line and "return self" not in line]
+    assert "Traceback" not in done.stderr
+    # exactly one error line (argparse also prints its usage block before it)
+    assert sum("error:" in line for line in lines) == 1
+    assert "error:" in lines[-1]
+
+
+def test_bad_case_error_names_file_and_key(tmp_path):
+    case = tmp_path / "bad.toml"
+    case.write_text(DEMO.read_text().replace("aperture_a_mm = 90.0", "aperture_a_mm = -5.0"))
+    done = run_cli("predict", str(case))
+    assert done.returncode == 2
+    assert "bad.toml" in done.stderr and "aperture_a_mm" in done.stderr
+    assert "Traceback" not in done.stderr
+
+
+@pytest.mark.parametrize("command", ["predict", "simulate", "verify", "sweep", "regress", "design", "report"])
+def test_help_of_every_command(command):
+    done = run_cli(command, "--help")
+    assert done.returncode == 0
+    assert "usage" in done.stdout
+
+
+def test_design_writes_a_case_that_loads(tmp_path, capsys):
+    from hornproof.compare.casefile import load_case
+
+    target = tmp_path / "designed.toml"
+    assert main(["design", "gain", "--gain-dbi", "20", "--frequency-ghz", "10", "--waveguide", "WR-90",
+                 "--write-case", str(target)]) == 0
+    case = load_case(target)
+    assert case.horn.kind == "pyramidal"
+    # realizability by construction: one axial flare length in both planes; the designed horn's
+    # closed-form directivity at the design frequency is the target (the design's own contract)
+    from hornproof.analytic.predict import predict
+
+    d = predict(case.horn, [10e9])["closed_form"].directivity_dbi[0]
+    assert d == pytest.approx(20.0, abs=0.01)
+    # a second write refuses to overwrite (never lose data)
+    assert main(["design", "gain", "--gain-dbi", "20", "--frequency-ghz", "10", "--waveguide", "WR-90",
+                 "--write-case", str(target)]) == 2
