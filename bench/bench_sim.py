@@ -101,23 +101,9 @@ def memory_estimate(horn, frequencies, settings, cells_per_wavelength):
     from hornproof.sim import model as md
 
     layout = md.plan_layout(horn, frequencies, settings, cells_per_wavelength)
-    unit = layout.unit_length
-    resolution = layout.resolution / unit  # cells per metre
-    dims = layout.dims
-    # near-to-far box: faces of the box around the horn; the flux box on the same surface
-    # stores the same tangential DFT fields again, hence the factor 2
-    sides = [2 * h * unit for h in layout.box_half] + [(layout.box_z[1] - layout.box_z[0]) * unit]
-    if dims == 3:
-        area = 2 * (sides[0] * sides[1] + sides[0] * sides[2] + sides[1] * sides[2])
-        surface = 2 * area * resolution**2
-    else:
-        surface = 2 * 2 * (sides[0] + sides[1]) * resolution
-    symmetry = (4 if dims == 3 else 2) if settings.use_symmetry else 1
-    result = estimate.estimate_resources(
-        layout.cell_size_m, resolution, dims, len(frequencies), int(surface), symmetry, 0,
-        pml_thickness_m=layout.pml * unit)
+    result = estimate.estimate_for_layout(layout, len(frequencies), settings.use_symmetry)
     return {"cells": result.cells, "pml_cells": result.pml_cells,
-            "memory_bytes": result.memory_bytes, "surface_cells": int(surface),
+            "memory_bytes": result.memory_bytes,
             "model_bytes": result.memory_bytes - estimate.BASE_MEMORY_BYTES}
 
 
@@ -261,8 +247,8 @@ def part_memory(args):
         after = r["peak_rss_bytes"] - stepping_peak
         print(f"[memory] {label}: peak RSS at the end of stepping {stepping_peak / 2**20:.0f} MiB"
               f" vs estimate {estimate['memory_bytes'] / 2**20:.0f} MiB (measured/estimate "
-              f"{ratio:.2f}; {estimate['cells']} cells stored, {estimate['surface_cells']} DFT "
-              f"surface cells); post-processing then adds {after / 2**20:.0f} MiB "
+              f"{ratio:.2f}; {estimate['cells']} cells stored, {estimate['pml_cells']} in PML); "
+              f"post-processing then adds {after / 2**20:.0f} MiB "
               f"(peak {r['peak_rss_bytes'] / 2**20:.0f} MiB)")
         out[f"memory_ratio {label}"] = ratio
         out[f"post_processing_mib {label}"] = after / 2**20

@@ -51,6 +51,7 @@ from ..units import SPEED_OF_LIGHT
 __all__ = [
     "ResourceEstimate",
     "estimate_resources",
+    "estimate_for_layout",
     "courant_timesteps",
     "check_fits",
     "available_memory_bytes",
@@ -157,8 +158,9 @@ def estimate_resources(cell_size_xyz_m, resolution_cells_per_m, dims, n_frequenc
         1 without mirror planes, 2 per mirror plane (4 for TE10's two).
     steps : int
         Time steps (see :func:`courant_timesteps`).
-    pml_thickness_m : float
-        PML thickness on every side, m (inside ``cell_size_xyz_m``).
+    pml_thickness_m : float or sequence of (float, float)
+        PML thickness, m (inside ``cell_size_xyz_m``): one value for every side, or a
+        (low side, high side) pair per axis.
     rate : float, optional
         Interior 3D cell-steps per second; default :func:`stepping_rate`.
 
@@ -174,11 +176,17 @@ def estimate_resources(cell_size_xyz_m, resolution_cells_per_m, dims, n_frequenc
         raise ValueError("symmetry_factor: must be >= 1")
     if n_frequencies < 0 or n_farfield_points_or_surface_cells < 0 or steps < 0:
         raise ValueError("n_frequencies, n_farfield_points_or_surface_cells, steps: must be >= 0")
-    if pml_thickness_m < 0:
-        raise ValueError("pml_thickness_m: must be >= 0")
     counts = _grid_counts(cell_size_xyz_m, resolution_cells_per_m, dims)
-    pml_cells_each = int(round(pml_thickness_m * resolution_cells_per_m))
-    inner = [max(0, n - 2 * pml_cells_each) for n in counts]
+    if isinstance(pml_thickness_m, (int, float)):
+        sides = [(float(pml_thickness_m),) * 2] * dims
+    else:
+        sides = [tuple(float(t) for t in pair) for pair in pml_thickness_m][:dims]
+        if len(sides) != dims or any(len(pair) != 2 for pair in sides):
+            raise ValueError(f"pml_thickness_m: need one value or {dims} (low, high) pairs")
+    if any(t < 0 for pair in sides for t in pair):
+        raise ValueError("pml_thickness_m: must be >= 0")
+    inner = [max(0, n - sum(int(round(t * resolution_cells_per_m)) for t in pair))
+             for n, pair in zip(counts, sides)]
     total = math.prod(counts)
     pml = total - math.prod(inner)
     cells = int(math.ceil(total / symmetry_factor))
@@ -191,6 +199,31 @@ def estimate_resources(cell_size_xyz_m, resolution_cells_per_m, dims, n_frequenc
     work = steps * (cells + PML_TIME_WEIGHT[dims] * pml_cells) * TIME_FRACTION_OF_3D[dims]
     return ResourceEstimate(cells=cells, memory_bytes=float(memory), timesteps=int(steps),
                             seconds=float(work / rate), pml_cells=pml_cells)
+
+
+def estimate_for_layout(layout, n_frequencies, use_symmetry=True, steps=0, rate=None):
+    """:func:`estimate_resources` for a ``sim.model.Layout`` (duck-typed).
+
+    Reads ``dims``, ``unit_length`` (m per Meep unit), ``resolution`` (cells per Meep unit),
+    ``cell_size_m``, ``pml``, ``pml_back`` (behind the feed, low z), ``box_half`` and
+    ``box_z`` (the closed near-to-far box, Meep units). The near-to-far box and the flux box
+    on the same surface each store tangential DFT fields, so the surface counts twice.
+    Mirror planes: two in 3D, one in 2D (TE10 symmetry), when ``use_symmetry``.
+    """
+    unit = layout.unit_length
+    resolution = layout.resolution / unit
+    dims = layout.dims
+    sides = [2 * h * unit for h in layout.box_half] + [(layout.box_z[1] - layout.box_z[0]) * unit]
+    if dims == 3:
+        area = 2 * (sides[0] * sides[1] + sides[0] * sides[2] + sides[1] * sides[2])
+        surface = 2 * area * resolution**2
+    else:
+        surface = 2 * 2 * (sides[0] + sides[1]) * resolution
+    pml = layout.pml * unit
+    pml_sides = [(pml, pml)] * (dims - 1) + [(getattr(layout, "pml_back", layout.pml) * unit, pml)]
+    symmetry = (4 if dims == 3 else 2) if use_symmetry else 1
+    return estimate_resources(layout.cell_size_m, resolution, dims, n_frequencies, int(surface),
+                              symmetry, steps, pml_thickness_m=pml_sides, rate=rate)
 
 
 def available_memory_bytes(meminfo="/proc/meminfo"):

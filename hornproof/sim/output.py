@@ -59,6 +59,7 @@ __all__ = [
     "read_result_json",
     "json_ready",
     "s11_of",
+    "write_result_s1p",
 ]
 
 FIELDS_SCHEMA = "hornproof.fields/1"
@@ -307,6 +308,21 @@ def read_fields_h5(path):
         power = read_group("power")
     return {"attributes": attributes, "frequencies": frequencies, "patterns": patterns,
             "full_pattern": full_pattern, "s11": s11, "power": power, "units": units}
+
+
+def write_result_s1p(path, sim_result_like, *, case_name, version=1):
+    """Write the result's S11 (TE10 reflection) as a one-port Touchstone file, atomically.
+
+    Raises ``ValueError`` if the result carries no S11.
+    """
+    from .touchstone import write_s1p
+
+    s11 = s11_of(sim_result_like)
+    if s11 is None:
+        raise ValueError("sim_result_like: no S11 (extra['s11_real'/'s11_imag'] or s11)")
+    solver = f"meep {_metadata(sim_result_like, 'solver_version', 'meep_version', default='unknown')}"
+    return write_s1p(path, _array(_get(sim_result_like, "frequencies"), "frequencies"), s11,
+                     case_name=case_name, solver_version=solver, version=version)
 
 
 # --- result.json ----------------------------------------------------------------------------

@@ -151,3 +151,36 @@ def test_memory_estimate_against_meep_peak_rss():
     estimate = estimate_resources(size, res, 3, nf, measured["surface"], 1, 0,
                                   pml_thickness_m=pml)
     assert estimate.memory_bytes == pytest.approx(measured["rss"], rel=0.20)
+
+
+def test_pml_per_side_by_hand():
+    # 20 × 20 × 40 cells at 100 cells/m; PML 0.02 m (2 cells) on x and y both sides, and on z
+    # 0.04 m (4 cells) low + 0.02 m (2 cells) high: inside 16 × 16 × 34 (arithmetic)
+    estimate = estimate_resources((0.2, 0.2, 0.4), 100.0, 3, 0, 0, 1, 0,
+                                  pml_thickness_m=[(0.02, 0.02), (0.02, 0.02), (0.04, 0.02)])
+    assert estimate.pml_cells == 20 * 20 * 40 - 16 * 16 * 34
+    with pytest.raises(ValueError, match="pml_thickness_m"):
+        estimate_resources((0.2, 0.2, 0.4), 100.0, 3, 0, 0, 1, 0, pml_thickness_m=[(0.1, 0.1)])
+
+
+@pytest.mark.fullwave
+def test_layout_estimate_counts_the_cells_meep_builds():
+    # the physics side's layout of a small invented WR-90 horn; Meep's own grid is the reference
+    model = pytest.importorskip("hornproof.sim.model")
+    import numpy as np
+
+    from hornproof.analytic.geometry import HornGeometry
+    from hornproof.sim.estimate import estimate_for_layout
+    from hornproof.sim.settings import FdtdSettings
+
+    horn = HornGeometry("h-sectoral", 22.86e-3, 10.16e-3, 45e-3, 10.16e-3, 40e-3, 1e-3)
+    layout = model.plan_layout(horn, np.array([10e9]), FdtdSettings(), 8.0)
+    script = ("import json, sys, meep as mp\nmp.verbosity(0)\n"
+              "size, res = json.loads(sys.argv[1])\n"
+              "s = mp.Simulation(cell_size=mp.Vector3(*size), resolution=res)\ns.init_sim()\n"
+              "g = s.fields.gv\nprint(json.dumps([g.nx(), g.ny(), g.nz()]))\n")
+    out = subprocess.run([sys.executable, "-c", script,
+                          json.dumps([list(layout.cell_size), layout.resolution])],
+                         capture_output=True, text=True, timeout=120, check=True).stdout
+    grid = json.loads(next(line for line in out.splitlines() if line.startswith("[")))
+    assert estimate_for_layout(layout, 1, use_symmetry=False).cells == math.prod(grid)

@@ -212,3 +212,20 @@ def test_fields_from_the_physics_side_result_class(tmp_path):
     assert back["attributes"]["wall_thickness_modelled_m"] == 2.5e-3
     assert back["units"]["/power/radiated"] == "Meep units (relative)"
     assert "co_polar_dbi" in back["full_pattern"]
+
+
+def test_result_s11_to_touchstone_reads_in_scikit_rf(tmp_path):
+    # scikit-rf as the reference Touchstone reader (see test_touchstone.py)
+    skrf = pytest.importorskip("skrf")
+    from hornproof.sim.output import write_result_s1p
+
+    result = _result(nf=4)
+    path = tmp_path / "feed.s1p"
+    write_result_s1p(path, result, case_name="demo")
+    network = skrf.Network(str(path))
+    np.testing.assert_allclose(network.f, result.frequencies, rtol=1e-12)
+    np.testing.assert_allclose(network.s[:, 0, 0],
+                               result.extra["s11_real"] + 1j * result.extra["s11_imag"], atol=1e-9)
+    assert "! solver: meep 1.25.0" in path.read_text()
+    with pytest.raises(ValueError, match="no S11"):
+        write_result_s1p(tmp_path / "none.s1p", {"frequencies": [1e9]}, case_name="x")
