@@ -351,8 +351,7 @@ def verify_case(case, out_dir=None, *, force=False, progress=None, ladder=None):
                    "values": values.get(dkey), "estimates": estimates.get(dkey, []),
                    "all_figures": estimates}
     comparison = comparison_block(case.frequencies, summary["models"], tolerances, metric_uncertainty,
-                                  model_checked=case.checks.get("model", "closed_form") if isinstance(
-                                      case.checks.get("model", "closed_form"), str) else "closed_form",
+                                  model_checked=case.check_model,
                                   convergence=convergence)
     patterns = pattern_errors(models, sim_results, ladder)
     comparison["pattern_error"] = {"window_db": PATTERN_WINDOW_DB, "planes": patterns}
