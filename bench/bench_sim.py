@@ -65,8 +65,12 @@ def worker(spec):
     stepping_marks = []
     plain_run = mp.Simulation.run
 
-    def run_and_note_memory(self, *args, **kwargs):  # peak RSS when stepping ends
+    stepping_cpu = []
+
+    def run_and_note_memory(self, *args, **kwargs):  # peak RSS when stepping ends, CPU time
+        cpu = time.process_time()
         value = plain_run(self, *args, **kwargs)
+        stepping_cpu.append(time.process_time() - cpu)
         stepping_marks.append(resource.getrusage(resource.RUSAGE_SELF).ru_maxrss * 1024)
         return value
 
@@ -89,21 +93,24 @@ def worker(spec):
         "peak_rss_bytes": resource.getrusage(resource.RUSAGE_SELF).ru_maxrss * 1024,
         "rss_before_simulate_bytes": rss_before,
         "rss_after_stepping_bytes": stepping_marks[-1] if stepping_marks else None,
+        "stepping_cpu_seconds": sum(stepping_cpu),
+        "load_average": os.getloadavg()[0],
     }
     figures["estimate"] = memory_estimate(horn, frequencies, settings,
-                                          spec["cells_per_wavelength"])
+                                          spec["cells_per_wavelength"], run.get("timesteps", 0))
     return figures
 
 
-def memory_estimate(horn, frequencies, settings, cells_per_wavelength):
+def memory_estimate(horn, frequencies, settings, cells_per_wavelength, steps=0):
     """hornproof.sim.estimate's figures for the model ``simulate`` lays out."""
     from hornproof.sim import estimate
     from hornproof.sim import model as md
 
     layout = md.plan_layout(horn, frequencies, settings, cells_per_wavelength)
-    result = estimate.estimate_for_layout(layout, len(frequencies), settings.use_symmetry)
+    result = estimate.estimate_for_layout(layout, len(frequencies), settings.use_symmetry,
+                                          steps=steps or 0)
     return {"cells": result.cells, "pml_cells": result.pml_cells,
-            "memory_bytes": result.memory_bytes,
+            "memory_bytes": result.memory_bytes, "seconds": result.seconds,
             "model_bytes": result.memory_bytes - estimate.BASE_MEMORY_BYTES}
 
 
@@ -175,6 +182,12 @@ def part_stepping(args):
           f"{r['seconds_total']:.2f} s = {100 * share:.0f} %; of the whole process "
           f"{r['process_seconds']:.2f} s (imports included) = {100 * share_process:.0f} %; "
           f"{r.get('timesteps')} steps, {r.get('grid_cells', 0):.3g} cells before symmetry")
+    estimate = r.get("estimate")
+    if estimate:
+        print(f"[stepping] estimated stepping time for those {r['timesteps']} steps: "
+              f"{estimate['seconds']:.2f} s; measured {r['seconds_stepping']:.2f} s wall, "
+              f"{r['stepping_cpu_seconds']:.2f} s CPU (load average {r['load_average']:.1f}; "
+              f"rate from ~/.cache/hornproof/stepping_rate.json or the build machine's default)")
     return {"stepping_share": share, "stepping_share_process": share_process}
 
 

@@ -27,6 +27,11 @@ empty vacuum cells with a Gaussian Ey point source, PML of 0 / 0.5 / 1 / 1.5 uni
     two mirror planes (Mirror X, Mirror Y) on a 80³ cell: 3.5× less field memory,
     3.85× less time (the estimate uses the nominal factor given by the caller)
 
+Re-measured 02:33 UTC the same day as CPU time (``time.process_time``) under a load average
+of 6 on 2 cores: 8.3–10.7 ns per interior 3D cell-step, 21–24 ns per cell-step in cells with
+0.5–1 unit of PML (consistent with the figures above); 2D 3.4 ns, PML extra ≈ 6 ns (the 2D
+PML weight is the least certain coefficient).
+
 Material (PEC walls) and the DFT updates add little per step in these probes (100 near-to-far
 frequencies cost +6 % time); a horn run also spends time in the near-to-far transform after
 stepping, which ``seconds`` does not include.
@@ -38,6 +43,7 @@ cells); the post-processing afterwards (far-field evaluation) added a further 42
 hence :data:`POST_PROCESSING_BYTES` in ``peak_memory_bytes``.
 """
 
+import dataclasses
 import json
 import math
 import os
@@ -69,6 +75,12 @@ MEMORY_PER_PML_CELL = {3: 103.6, 2: 20.0}
 MEMORY_PER_SURFACE_CELL_FREQUENCY = {3: 105.6, 2: 48.0}
 PML_TIME_WEIGHT = {3: 13.5 / 9.3, 2: 2.4 / 3.1}
 TIME_FRACTION_OF_3D = {3: 1.0, 2: 0.34}
+#: horn models step slower than the empty calibration cells (PEC walls, four DFT monitors)
+#: and pay a Python stop-condition call per step: stepping CPU time of simulate (bench_sim
+#: --only stepping, 2026-12-02, 1073 and 1685 steps, 21 k and 62 k stored cells) fitted as
+#: 1.24 × the empty-cell figure + 0.19 ms per step (two points: an exact fit, not a check)
+MODEL_TIME_FACTOR = 1.24
+PER_STEP_OVERHEAD_SECONDS = 1.9e-4
 #: extra resident memory of simulate's post-processing, measured by bench_sim (see notes)
 POST_PROCESSING_BYTES = 46 * 2**20
 #: interior 3D cell-steps per second measured here (1 / 9.3 ns); used when no cache exists
@@ -208,6 +220,8 @@ def estimate_for_layout(layout, n_frequencies, use_symmetry=True, steps=0, rate=
     ``cell_size_m``, ``pml``, ``pml_back`` (behind the feed, low z), ``box_half`` and
     ``box_z`` (the closed near-to-far box, Meep units). The near-to-far box and the flux box
     on the same surface each store tangential DFT fields, so the surface counts twice.
+    Time: the empty-cell figure × :data:`MODEL_TIME_FACTOR` + :data:`PER_STEP_OVERHEAD_SECONDS`
+    per step.
     Mirror planes: two in 3D, one in 2D (TE10 symmetry), when ``use_symmetry``.
     """
     unit = layout.unit_length
@@ -222,8 +236,10 @@ def estimate_for_layout(layout, n_frequencies, use_symmetry=True, steps=0, rate=
     pml = layout.pml * unit
     pml_sides = [(pml, pml)] * (dims - 1) + [(getattr(layout, "pml_back", layout.pml) * unit, pml)]
     symmetry = (4 if dims == 3 else 2) if use_symmetry else 1
-    return estimate_resources(layout.cell_size_m, resolution, dims, n_frequencies, int(surface),
-                              symmetry, steps, pml_thickness_m=pml_sides, rate=rate)
+    empty = estimate_resources(layout.cell_size_m, resolution, dims, n_frequencies, int(surface),
+                               symmetry, steps, pml_thickness_m=pml_sides, rate=rate)
+    seconds = empty.seconds * MODEL_TIME_FACTOR + steps * PER_STEP_OVERHEAD_SECONDS
+    return dataclasses.replace(empty, seconds=seconds)
 
 
 def available_memory_bytes(meminfo="/proc/meminfo"):
@@ -267,7 +283,7 @@ def check_fits(estimate, force=False, *, available=None):
 
 # --- stepping rate of this machine ------------------------------------------------------------
 def measure_stepping_rate(size=3.0, resolution=16, pml=0.5, until=3.0):
-    """Time a tiny empty 3D Meep run and return interior cell-steps per second.
+    """Time a tiny empty 3D Meep run and return interior cell-steps per CPU second.
 
     The PML cells are weighted as in :func:`estimate_resources`, so the result is comparable
     with :data:`DEFAULT_STEPPING_RATE`. Meep units (lengths in arbitrary units).
@@ -281,9 +297,11 @@ def measure_stepping_rate(size=3.0, resolution=16, pml=0.5, until=3.0):
         sources=[mp.Source(mp.GaussianSource(1.0, fwidth=0.5), component=mp.Ey,
                            center=mp.Vector3())])
     simulation.run(until=1.0 / resolution)  # allocate the fields before timing
-    start_time, start = simulation.meep_time(), time.perf_counter()
+    # CPU time, not wall time: on a shared machine the wall clock also counts other people's
+    # jobs; serial Meep (Debian's build has no OpenMP) uses one core, so CPU ≈ idle wall time
+    start_time, start = simulation.meep_time(), time.process_time()
     simulation.run(until=until)
-    wall = time.perf_counter() - start
+    wall = time.process_time() - start
     steps = round((simulation.meep_time() - start_time) / simulation.fields.dt)
     n = int(round(size * resolution))
     inner = max(0, n - 2 * int(round(pml * resolution)))

@@ -107,8 +107,9 @@ class ProgressReporter:
         if not force and self._last_line is not None and now - self._last_line < self.interval:
             return False
         fraction = min(1.0, max(0.0, float(fraction)))
+        eta = format_duration(self.eta(fraction, now))
         text = (f"{self.label}: {100 * fraction:3.0f} %  elapsed "
-                f"{format_duration(now - self.start)}, ETA {format_duration(self.eta(fraction, now))}")
+                f"{format_duration(now - self.start)}, ETA {eta}")
         if note:
             text += f"  ({note})"
         self.stream.write(text + "\n")
