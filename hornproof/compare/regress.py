@@ -399,6 +399,34 @@ def solver_version():
         return "unavailable"
 
 
+def source_digest(package=None):
+    """Short SHA-256 over the hornproof package's Python sources (paths and contents).
+
+    Part of the cache key next to the version number: between releases the code that computes a
+    result changes without the version changing, and a nightly run must then run again, not read
+    yesterday's results.
+    """
+    import hashlib
+
+    package = Path(package) if package is not None else Path(__file__).resolve().parents[1]
+    digest = hashlib.sha256()
+    for path in sorted(package.rglob("*.py")):
+        if "__pycache__" in path.parts:
+            continue
+        digest.update(str(path.relative_to(package)).encode("utf-8") + b"\0")
+        try:
+            digest.update(path.read_bytes())
+        except OSError:
+            digest.update(b"<unreadable>")
+        digest.update(b"\0")
+    return digest.hexdigest()[:12]
+
+
+def hornproof_build():
+    """``<version>+src.<source digest>``: which hornproof code produced a result."""
+    return f"{__version__}+src.{source_digest()}"
+
+
 def settings_record(case):
     """JSON-ready FDTD settings of a (tier) case, for the cache key and the baseline."""
     settings = getattr(case, "fdtd", None)
@@ -700,12 +728,13 @@ def run_regression(case_paths, *, tier="quick", results_dir="results", baselines
     loaded = _load_cases(case_paths, tier, loader)
     cache = ResultCache(results_dir)
     solver = solver_version()
+    build = hornproof_build()
 
     outcomes = []
     baselines = []
     for path, case, tier_case in loaded:
         settings = settings_record(tier_case)
-        key, inputs = cache_key(tier_case.sha256, tier, settings, solver, __version__)
+        key, inputs = cache_key(tier_case.sha256, tier, settings, solver, build)
         folder = Path(baselines_dir) if baselines_dir is not None else path.parent / "baselines"
         bpath = baseline_path(folder, case.name, tier)
         baselines.append(read_baseline(bpath))  # InputError (exit 2) before any work is done
@@ -857,7 +886,7 @@ def summary_document(outcomes, *, tier, started_utc, finished_utc, updated=()):
     return {
         "schema": SCHEMA,
         "tier": tier,
-        "hornproof_version": __version__,
+        "hornproof_version": outcomes[0].cache_inputs["hornproof_version"] if outcomes else hornproof_build(),
         "solver_version": solver_version(),
         "started_utc": started_utc,
         "finished_utc": finished_utc,
@@ -998,7 +1027,7 @@ def _finish(args, outcomes, results_dir, started):
             try:
                 write_baseline(path, baseline_from_result(
                     outcome.result, case=outcome.name, tier=tier, settings=outcome.settings,
-                    hornproof_version=__version__))
+                    hornproof_version=outcome.cache_inputs["hornproof_version"]))
             except (ValueError, OSError) as error:
                 raise InputError(f"{path}: cannot write baseline ({error})") from None
             updated.append(_display_path(path))

@@ -554,3 +554,18 @@ def test_malformed_or_foreign_results_are_failed_runs(workspace, capsys):
     # neither result entered the cache: both cases run again next time
     assert not [p for p in (workspace["root"] / "results" / "horn-a").iterdir() if not p.name.startswith(".")]
     assert not [p for p in (workspace["root"] / "results" / "horn-b").iterdir() if not p.name.startswith(".")]
+
+
+def test_source_digest_follows_code_changes(tmp_path):
+    package = tmp_path / "pkg"
+    (package / "sub").mkdir(parents=True)
+    (package / "a.py").write_text("x = 1\n")
+    (package / "sub" / "b.py").write_text("y = 2\n")
+    first = regress.source_digest(package)
+    (package / "__pycache__").mkdir()
+    (package / "__pycache__" / "a.cpython-311.py").write_text("junk")
+    (package / "notes.txt").write_text("not code")
+    assert regress.source_digest(package) == first
+    (package / "sub" / "b.py").write_text("y = 3\n")
+    assert regress.source_digest(package) != first
+    assert regress.hornproof_build().startswith(regress.__version__ + "+src.")
