@@ -75,26 +75,21 @@ class SimResult:
         """The same figures as ``hornproof.analytic.model_result.ModelResult`` (when it exists)."""
         from ..analytic.model_result import ModelResult
 
-        return ModelResult(**{k: getattr(self, k) for k in self.MODEL_FIELDS})
+        return ModelResult(**{k: getattr(self, k) for k in self.MODEL_FIELDS}, attributes=dict(self.run))
 
 
 def _cut_metrics(theta_deg, cuts_db):
-    """HPBW, first null, sidelobe level per frequency; analytic.pattern_metrics when present."""
+    """HPBW, first null, sidelobe level per frequency (``analytic.pattern_metrics``; the local
+    ``cut_metrics`` fallback only if that module is missing)."""
+    cuts_db = np.asarray(cuts_db, dtype=float)
     try:
-        from ..analytic import pattern_metrics
+        from ..analytic.pattern_metrics import cut_metrics
     except ImportError:
-        pattern_metrics = None
-    hpbw, null, sll = [], [], []
-    for cut in cuts_db:
-        figures = None
-        if pattern_metrics is not None and hasattr(pattern_metrics, "cut_figures"):
-            figures = pattern_metrics.cut_figures(theta_deg, cut)
-        if figures is None:
-            figures = cut_figures(theta_deg, cut)
-        hpbw.append(figures[0])
-        null.append(figures[1])
-        sll.append(figures[2])
-    return np.array(hpbw, dtype=float), np.array(null, dtype=float), np.array(sll, dtype=float)
+        rows = [cut_figures(theta_deg, cut) for cut in cuts_db]
+        return tuple(np.array(col, dtype=float) for col in zip(*rows))
+    m = cut_metrics(theta_deg, cuts_db)
+    return (np.asarray(m["hpbw_deg"], dtype=float), np.asarray(m["first_null_deg"], dtype=float),
+            np.asarray(m["sll_db"], dtype=float))
 
 
 def estimated_cells(layout, use_symmetry=True):
@@ -163,10 +158,15 @@ def simulate(horn, frequencies, settings, cells_per_wavelength, *, progress=None
     t_start = time.monotonic()
     frequencies = np.atleast_1d(np.asarray(frequencies, dtype=float))
     layout = md.plan_layout(horn, frequencies, settings, cells_per_wavelength)
-    cells = estimated_cells(layout, settings.use_symmetry)
-    if cells * BYTES_PER_CELL > MEMORY_LIMIT_BYTES and not force:
-        raise RunError(f"the model needs about {cells * BYTES_PER_CELL / 2**30:.1f} GiB "
-                       f"({cells:.3g} cells); lower cells_per_wavelength or force the run")
+    try:
+        from .estimate import check_fits, estimate_for_layout
+    except ImportError:
+        cells = estimated_cells(layout, settings.use_symmetry)
+        if cells * BYTES_PER_CELL > MEMORY_LIMIT_BYTES and not force:
+            raise RunError(f"the model needs about {cells * BYTES_PER_CELL / 2**30:.1f} GiB "
+                           f"({cells:.3g} cells); lower cells_per_wavelength or force the run")
+    else:
+        check_fits(estimate_for_layout(layout, frequencies.size, use_symmetry=settings.use_symmetry), force)
     try:
         import meep as mp
     except ImportError as exc:  # pragma: no cover - depends on the machine
