@@ -18,7 +18,7 @@ import numpy as np
 
 from ..errors import InputError
 from ..units import GHZ, MM
-from .summary import SAFETY_NOTE, jsonable
+from .summary import SAFETY_NOTE, jsonable, safety_lines
 
 
 def add_design_arguments(parser):
@@ -156,7 +156,7 @@ def format_design(summary):
              f"{summary['aperture_efficiency'] * 100:.1f} %",
              f"  both models      closed form {summary['both_models_dbi']['closed_form']:.2f} dBi, "
              f"exact phase {summary['both_models_dbi']['exact_phase']:.2f} dBi",
-             f"  {summary['safety']}"]
+             safety_lines()]
     return "\n".join(lines)
 
 

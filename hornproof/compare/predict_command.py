@@ -6,7 +6,7 @@ import numpy as np
 
 from ..analytic.predict import predict
 from .casefile import load_case
-from .summary import SAFETY_NOTE, base_summary, dumps
+from .summary import base_summary, dumps, safety_lines
 
 
 def predict_case(case, equivalent="huygens"):
@@ -53,7 +53,7 @@ def format_table(summary):
             f" {_fmt(cf['sll_h_db'][i], 8, 1)} {_fmt(cf['sll_e_db'][i], 8, 1)}")
     lines += ["", "  cf = closed form (quadratic phase, Fresnel integrals); ex = exact path length from the apex;",
               "  diff = closed form minus exact phase (the phase-approximation error).",
-              f"  {SAFETY_NOTE}"]
+              safety_lines()]
     for w in summary.get("warnings", []):
         lines.append(f"  warning: {w}")
     return "\n".join(lines)

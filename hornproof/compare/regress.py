@@ -613,6 +613,10 @@ def _load_cases(paths, tier, loader):
         loaded.append((Path(path), case, tier_case))
     names = {}
     for path, case, _ in loaded:
+        try:
+            ResultCache(".").entry_dir(case.name, "key")
+        except ValueError as error:
+            raise InputError(f"{path}: {error} (rename the case file)") from None
         if case.name in names:
             raise InputError(f"{path}: name: {case.name!r} is also the name of {names[case.name]} "
                              "(baselines and results are stored by case name)")
@@ -987,6 +991,11 @@ def regress_command(args, *, runner=None, loader=None, world=None):
     if world is None:
         world = _mpi_world() or _SerialWorld()
     results_dir = Path(args.results)
+    try:
+        results_dir.mkdir(parents=True, exist_ok=True)
+    except OSError as error:
+        raise InputError(f"{results_dir}: --results: cannot use this as the results folder "
+                         f"({error.strerror or error})") from None
     with _TerminateAsExit():
         paths = find_case_files(args.cases)
         outcomes = run_regression(paths, tier=args.tier, results_dir=results_dir, baselines_dir=args.baselines,

@@ -9,7 +9,7 @@ from pathlib import Path
 import numpy as np
 
 from .casefile import load_case
-from .summary import base_summary, dumps, jsonable
+from .summary import base_summary, dumps, jsonable, safety_lines
 
 
 def simulate_case(case, cells_per_wavelength, out_dir, *, force=False, image=False):
@@ -72,7 +72,8 @@ def format_fdtd(summary):
         lines.append(f"  {freq:7.3f} {f(fd[dkey][i], 8)} {f((fd.get(gkey) or [None] * 99)[i], 9)} "
                      f"{f(fd['s11_db'][i], 7, 1)} {f(fd['vswr'][i], 6)} {f(fd['hpbw_h_deg'][i], 7, 1)} "
                      f"{f(fd['hpbw_e_deg'][i], 7, 1)} {f(None if pb is None else pb * 100, 8, 2)}")
-    lines.append(f"  run time {summary['solver']['seconds']:.1f} s; {summary['safety']}")
+    lines.append(f"  run time {summary['solver']['seconds']:.1f} s")
+    lines.append(safety_lines())
     return "\n".join(lines)
 
 

@@ -62,5 +62,12 @@ def base_summary(case):
     }
 
 
+def safety_lines(indent="  ", width=96):
+    """The RF-exposure caution wrapped for a terminal."""
+    import textwrap
+
+    return textwrap.fill(SAFETY_NOTE, width=width, initial_indent=indent, subsequent_indent=indent)
+
+
 def dumps(summary):
     return json.dumps(jsonable(summary), indent=1, sort_keys=False, allow_nan=False) + "\n"

@@ -26,7 +26,7 @@ import numpy as np
 from .. import __version__
 from ..errors import InputError
 from .casefile import load_case
-from .summary import SAFETY_NOTE, dumps, jsonable
+from .summary import SAFETY_NOTE, dumps, jsonable, safety_lines
 
 SCHEMA = "hornproof.sweep/1"
 
@@ -339,7 +339,7 @@ def format_sweep(document):
         lines.append(f"  {name.replace('_', ' ')} peaks at {best['value']:.3g} {p['unit']} "
                      f"(S = {best['phase_error_h_wl']:.3f}, T = {best['phase_error_e_wl']:.3f} wavelengths)"
                      + ("" if best["interior"] else " — at the edge of the sweep"))
-    lines.append(f"  {document['safety']}")
+    lines.append(safety_lines())
     return "\n".join(lines)
 
 

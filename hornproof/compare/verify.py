@@ -20,7 +20,7 @@ import numpy as np
 from ..errors import InputError, RunError
 from .casefile import load_case
 from .predict_command import predict_case
-from .summary import dumps, jsonable
+from .summary import dumps, jsonable, safety_lines
 
 #: case-file check name -> comparison metrics it applies to (verdict.COMPARED_FIGURES keys)
 CHECK_METRICS = {
@@ -424,7 +424,7 @@ def format_verdicts(summary):
     if comparison.get("unresolved_checks"):
         lines.append("  unresolved: the numerical uncertainty exceeds the tolerance; use finer cells "
                      "(--cells-per-wavelength) to decide")
-    lines.append(f"  {summary['safety']}")
+    lines.append(safety_lines())
     return "\n".join(lines)
 
 
