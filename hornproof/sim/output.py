@@ -320,8 +320,8 @@ def write_result_s1p(path, sim_result_like, *, case_name, version=1):
     s11 = s11_of(sim_result_like)
     if s11 is None:
         raise ValueError("sim_result_like: no S11 (extra['s11_real'/'s11_imag'] or s11)")
-    version = _metadata(sim_result_like, "solver_version", "meep_version", default="unknown")
-    solver = f"meep {version}"
+    meep_version = _metadata(sim_result_like, "solver_version", "meep_version", default="unknown")
+    solver = f"meep {meep_version}"
     return write_s1p(path, _array(_get(sim_result_like, "frequencies"), "frequencies"), s11,
                      case_name=case_name, solver_version=solver, version=version)
 
