@@ -569,3 +569,21 @@ def test_source_digest_follows_code_changes(tmp_path):
     (package / "sub" / "b.py").write_text("y = 3\n")
     assert regress.source_digest(package) != first
     assert regress.hornproof_build().startswith(regress.__version__ + "+src.")
+
+
+def test_unusable_results_folder_or_case_name_exits_2(workspace, capsys):
+    (workspace["root"] / "afile").write_text("x")
+    code, out = _run(workspace, "--results", "afile", capsys=capsys)
+    assert code == 2 and "afile: --results" in out.err and len(out.err.strip().splitlines()) == 1
+    shutil.copy(workspace["cases"] / "horn-a.toml", workspace["cases"] / ".hidden.toml")
+    code, out = _run(workspace, "cases/.hidden.toml", capsys=capsys)
+    assert code == 2 and ".hidden.toml" in out.err and len(out.err.strip().splitlines()) == 1
+    assert not _runs(workspace)
+
+
+def test_two_cases_with_one_name_exit_2(workspace, capsys):
+    other = workspace["root"] / "other"
+    other.mkdir()
+    shutil.copy(workspace["cases"] / "horn-a.toml", other / "horn-a.toml")
+    code, out = _run(workspace, "cases", "other", capsys=capsys)
+    assert code == 2 and "other/horn-a.toml: name: 'horn-a'" in out.err
