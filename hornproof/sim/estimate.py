@@ -32,9 +32,11 @@ of 6 on 2 cores: 8.3–10.7 ns per interior 3D cell-step, 21–24 ns per cell-st
 0.5–1 unit of PML (consistent with the figures above); 2D 3.4 ns, PML extra ≈ 6 ns (the 2D
 PML weight is the least certain coefficient).
 
-Material (PEC walls) and the DFT updates add little per step in these probes (100 near-to-far
-frequencies cost +6 % time); a horn run also spends time in the near-to-far transform after
-stepping, which ``seconds`` does not include.
+In the empty probes the DFT updates added little per step (100 near-to-far frequencies cost
++6 % time). A horn model from ``sim.model`` steps slower than an empty cell (PEC walls, four
+DFT monitors, a Python stop condition every step): :func:`estimate_for_layout` adds the
+measured :data:`MODEL_TIME_FACTOR` and :data:`PER_STEP_OVERHEAD_SECONDS`. The near-to-far
+transform after stepping is not in ``seconds``.
 
 Check against ``hornproof.sim.run.simulate`` (bench/bench_sim.py --only memory, 2026-12-02,
 invented WR-90 H-plane horn, 16 cells per wavelength): peak RSS at the end of stepping was
