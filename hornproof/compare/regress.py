@@ -25,6 +25,7 @@ Exit status: 0 no regression · 1 a figure regressed or a run failed · 2 bad in
 """
 
 import argparse
+import contextlib
 import dataclasses
 import json
 import math
@@ -989,14 +990,17 @@ def regress_command(args, *, runner=None, loader=None, world=None):
     """
     started = _now_utc()
     if world is None:
-        world = _mpi_world() or _SerialWorld()
+        with contextlib.redirect_stdout(sys.stderr):  # Meep's banner when MPI starts
+            world = _mpi_world() or _SerialWorld()
     results_dir = Path(args.results)
     try:
         results_dir.mkdir(parents=True, exist_ok=True)
     except OSError as error:
         raise InputError(f"{results_dir}: --results: cannot use this as the results folder "
                          f"({error.strerror or error})") from None
-    with _TerminateAsExit():
+    # Standard output is for the table (or the JSON summary); what the runs print (Meep's banner,
+    # progress) goes to standard error.
+    with _TerminateAsExit(), contextlib.redirect_stdout(sys.stderr):
         paths = find_case_files(args.cases)
         outcomes = run_regression(paths, tier=args.tier, results_dir=results_dir, baselines_dir=args.baselines,
                                   fresh=args.fresh, force=args.force, runner=runner, loader=loader, world=world)
@@ -1007,9 +1011,21 @@ def regress_command(args, *, runner=None, loader=None, world=None):
         except HornproofError as exc:
             error, status = exc, exc.exit_code
     status = world.bcast(status, root=0)
+    if getattr(args, "json", False):
+        _silence_meep_exit_banner()
     if error is not None:
         raise error
     return status
+
+
+def _silence_meep_exit_banner():
+    """Meep prints "Elapsed run time" on standard output at exit; keep ``--json`` output pure JSON."""
+    module = sys.modules.get("meep")
+    report = getattr(module, "report_elapsed_time", None) if module is not None else None
+    if report is not None:
+        import atexit
+
+        atexit.unregister(report)
 
 
 def _finish(args, outcomes, results_dir, started):
