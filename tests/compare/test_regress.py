@@ -592,3 +592,74 @@ def test_two_cases_with_one_name_exit_2(workspace, capsys):
     shutil.copy(workspace["cases"] / "horn-a.toml", other / "horn-a.toml")
     code, out = _run(workspace, "cases", "other", capsys=capsys)
     assert code == 2 and "other/horn-a.toml: name: 'horn-a'" in out.err
+
+
+# --- with the real runner (verify + Meep) -------------------------------------------------------
+
+REAL_CASE = """\
+# Invented scenario for tests: a small X-band E-plane sectoral horn (2D in the quick tier).
+format = 1
+title = "small E-plane horn for regress tests (invented)"
+
+[horn]
+type = "e-sectoral"
+waveguide = "WR-90"
+aperture_b_mm = {aperture_b}
+flare_length_mm = 40.0
+
+[band]
+f_min_ghz = 9.5
+f_max_ghz = 10.5
+points = 2
+
+[fdtd]
+dims = 3
+cells_per_wavelength = [10, 12]
+
+[checks]
+directivity_db = 0.7
+"""
+
+
+@pytest.fixture
+def real_cases(tmp_path):
+    cases = tmp_path / "cases"
+    cases.mkdir()
+    for name, aperture_b in (("real-a", 30.0), ("real-b", 34.0)):
+        (cases / f"{name}.toml").write_text(REAL_CASE.format(aperture_b=aperture_b))
+    return tmp_path
+
+
+def _cli(root, *argv, mpi=False, timeout=600):
+    command = [sys.executable, "-m", "hornproof.compare.cli", "regress", *argv]
+    env = dict(os.environ, PYTHONPATH=str(REPO))
+    return subprocess.run((MPIRUN if mpi else []) + command, cwd=root, env=env, capture_output=True, text=True,
+                          timeout=timeout)
+
+
+@pytest.mark.fullwave
+def test_real_runs_repeat_exactly_through_the_command_line(real_cases):
+    first = _cli(real_cases, "--update")
+    assert first.returncode == 0, first.stderr
+    again = _cli(real_cases, "--fresh")
+    assert again.returncode == 0, again.stdout + again.stderr
+    document = json.loads((real_cases / "results" / "regress.json").read_text())
+    assert {f["status"] for c in document["cases"] for f in c["figures"]} == {"unchanged"}
+    assert all((real_cases / c["report"]).is_file() for c in document["cases"])
+    root = ET.parse(real_cases / "results" / "regress-quick.junit.xml").getroot()
+    assert root.get("failures") == "0" and int(root.get("tests")) == 2 + sum(len(c["figures"])
+                                                                             for c in document["cases"])
+
+
+@pytest.mark.fullwave
+@pytest.mark.skipif(shutil.which("mpirun") is None, reason="needs mpirun (openmpi-bin)")
+def test_real_runs_under_mpirun_give_the_serial_table(real_cases):
+    serial = _cli(real_cases, "--update")
+    assert serial.returncode == 0, serial.stderr
+    parallel = _cli(real_cases, "--fresh", mpi=True)
+    assert parallel.returncode == 0, parallel.stdout + parallel.stderr
+    assert "on 2 ranks" in parallel.stderr
+    serial_again = _cli(real_cases)  # from the cache the parallel run just filled
+    assert _table(parallel.stdout) == _table(serial_again.stdout)
+    document = json.loads((real_cases / "results" / "regress.json").read_text())
+    assert {f["status"] for c in document["cases"] for f in c["figures"]} == {"unchanged"}
