@@ -55,6 +55,16 @@ def format_duration(seconds):
     return f"{seconds // 3600} h {(seconds % 3600) // 60:02d} min"
 
 
+def _on_master():
+    """Rank 0? Asks Meep only if it is already imported: importing it just for this would
+    print Meep's MPI banner on stdout; before that, the launcher's environment tells."""
+    from . import mpi
+
+    if "meep" in sys.modules:
+        return mpi.is_master()
+    return mpi._environment_rank() == 0
+
+
 class ProgressReporter:
     """Throttled progress lines ``<label>: 37 % … elapsed 12 s, ETA 20 s`` on stderr.
 
@@ -84,9 +94,7 @@ class ProgressReporter:
             isatty = getattr(self.stream, "isatty", None)
             enabled = bool(isatty and isatty())
         if enabled and master_only:
-            from .mpi import is_master
-
-            enabled = is_master()
+            enabled = _on_master()
         self.enabled = bool(enabled)
         self.start = clock()
         self._last_line = None
