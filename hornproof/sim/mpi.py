@@ -7,8 +7,10 @@ for a plain serial ``python`` (one process). Its helpers, as they behave in Meep
   ``divide_parallel_processes``); ``mp.my_rank()`` — rank in it; ``mp.am_master()`` — rank 0
   of it; ``mp.my_global_rank()`` and ``mp.am_really_master()`` — the same over all processes.
 * ``mp.divide_parallel_processes(n)`` splits the processes into ``n`` groups (contiguous
-  ranks) and returns this process's group index; every ``Simulation`` built afterwards lives
-  in its group only. ``mp.end_divide_parallel()`` returns to the world communicator.
+  ranks, from memory of Meep's C++ source; nothing here relies on the order) and returns
+  this process's group index; every ``Simulation`` built afterwards lives in its group only
+  (checked by tests/sim/test_mpi.py). ``mp.end_divide_parallel()`` returns to the world
+  communicator.
 * ``mp.merge_subgroup_data(array)`` gathers one array per group; in Meep 1.25.0 it calls
   ``np.bool``, which numpy 1.24 (Debian's) removed, so it raises ``AttributeError`` here.
   :func:`run_in_groups` therefore gathers with mpi4py itself (any picklable result).
