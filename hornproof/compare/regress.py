@@ -836,7 +836,7 @@ def run_regression(case_paths, *, tier="quick", results_dir="results", baselines
                                        getattr(case, "checks", {}) or {})
         outcome.status = case_status(outcome.figures)
         report = Path(outcome.result_dir) / "report.html" if outcome.result_dir else None
-        outcome.report = str(report) if report is not None else ""
+        outcome.report = str(report) if report is not None and report.is_file() else ""
     return outcomes
 
 
@@ -1034,7 +1034,7 @@ def _finish(args, outcomes, results_dir, started):
     lines = [table, ""]
     for outcome in outcomes:
         if outcome.status == "regressed":
-            if outcome.report and Path(outcome.report).is_file():
+            if outcome.report:
                 lines.append(f"regressed: {outcome.name}: report {outcome.report}")
             else:
                 lines.append(f"regressed: {outcome.name}: result folder {outcome.result_dir} (no report.html)")
@@ -1068,7 +1068,7 @@ def _finish(args, outcomes, results_dir, started):
             path.parent.mkdir(parents=True, exist_ok=True)
         write_text_atomic(summary_path, json.dumps(document, indent=2, sort_keys=True) + "\n")
         write_junit(junit_path, f"hornproof regress ({tier})", junit_cases(outcomes, tier),
-                    properties={"tier": tier, "hornproof_version": __version__,
+                    properties={"tier": tier, "hornproof_version": document["hornproof_version"],
                                 "solver_version": document["solver_version"]})
     except OSError as error:
         raise InputError(f"{error.filename or summary_path}: cannot write ({error.strerror or error})") from None
