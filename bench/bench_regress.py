@@ -10,8 +10,9 @@ Run from the repository root::
    costs does not depend on where the cached results came from); then the whole suite is compared
    again, in process and as a fresh ``python -m hornproof.compare.regress`` (interpreter start
    included). Target: under 1 s.
-2. Quick tier, real runs (``hornproof.compare.verify.verify_case``): wall time serial and under
-   ``mpirun -np 2`` (two process groups), each with ``--fresh``. Skipped, and said so, when verify
+2. Quick tier, real runs (``hornproof.compare.verify.verify_case``): wall time serial, under
+   ``mpirun -np 2`` with the automatic plan, and with ``--ranks-per-case 1`` (two process groups,
+   one case each at a time), each with ``--fresh``. Skipped, and said so, when verify
    is not available.
 
 Prints measured numbers only; nothing here is a pass/fail test.
@@ -108,17 +109,22 @@ def bench_mpi(scratch, cases, timeout):
     base = [sys.executable, "-m", "hornproof.compare.regress", "--tier", "quick", "--fresh",
             "--baselines", str(scratch / "baselines")] + [str(c) for c in cases]
     times = {}
-    for label, prefix in (("serial", []),
-                          ("mpirun -np 2", ["mpirun", "--allow-run-as-root", "--oversubscribe", "-np", "2"])):
+    mpirun = ["mpirun", "--allow-run-as-root", "--oversubscribe", "-np", "2"]
+    for number, (label, prefix, extra) in enumerate((("serial", [], []),
+                                                     ("mpirun -np 2", mpirun, []),
+                                                     ("mpirun -np 2 --ranks-per-case 1", mpirun,
+                                                      ["--ranks-per-case", "1"]))):
         started = time.perf_counter()
-        done = subprocess.run(prefix + base + ["--results", str(scratch / f"results-{label[:6]}")], cwd=scratch,
-                              env=env, capture_output=True, text=True, timeout=timeout)
+        done = subprocess.run(prefix + base + extra + ["--results", str(scratch / f"results-{number}")],
+                              cwd=scratch, env=env, capture_output=True, text=True, timeout=timeout)
         times[label] = time.perf_counter() - started
-        print(f"  {label:13s} {times[label]:8.1f} s  exit {done.returncode}")
+        print(f"  {label:32s} {times[label]:8.1f} s  exit {done.returncode}")
         if done.returncode not in (0, 1):
             print("   " + (done.stderr.strip().splitlines() or ["(no error text)"])[-1])
-    if times.get("mpirun -np 2"):
-        print(f"  speed-up serial / mpirun -np 2: {times['serial'] / times['mpirun -np 2']:.2f}")
+    for label in list(times)[1:]:
+        print(f"  speed-up serial / {label}: {times['serial'] / times[label]:.2f}")
+    print(f"  (load average at the end: {', '.join(f'{x:.1f}' for x in os.getloadavg())}; "
+          "other work on the machine slows MPI runs most)")
 
 
 def main():

@@ -325,13 +325,14 @@ def _group_sizes(world_size, groups):
     return sizes
 
 
-def plan_process_groups(costs, world_size, efficiency_exponent=PARALLEL_EFFICIENCY_EXPONENT):
+def plan_process_groups(costs, world_size, efficiency_exponent=PARALLEL_EFFICIENCY_EXPONENT, ranks_per_case=None):
     """Choose the number of process groups and which cases each runs.
 
     Tries every group count g = 1 … min(world_size, cases); each group's speed is
     (its ranks)**efficiency_exponent; cases go largest first to the group that would finish
     them earliest (longest-processing-time rule). The g with the shortest estimated makespan
-    wins (fewer groups on a tie).
+    wins (fewer groups on a tie). ``ranks_per_case`` fixes g = world_size // ranks_per_case
+    (at least 1, at most the number of cases) instead.
 
     Parameters
     ----------
@@ -339,6 +340,10 @@ def plan_process_groups(costs, world_size, efficiency_exponent=PARALLEL_EFFICIEN
         Relative work of each case (:func:`estimate_case_cost`).
     world_size : int
         Number of MPI ranks.
+    efficiency_exponent : float
+        Speed of a group of r ranks relative to one rank is r**efficiency_exponent.
+    ranks_per_case : int, optional
+        Ranks wanted per group (``--ranks-per-case``).
 
     Returns
     -------
@@ -350,8 +355,13 @@ def plan_process_groups(costs, world_size, efficiency_exponent=PARALLEL_EFFICIEN
     n = len(costs)
     if n == 0:
         return [[]]
+    if ranks_per_case is not None and ranks_per_case < 1:
+        raise ValueError(f"ranks_per_case: {ranks_per_case} must be >= 1")
+    candidates = range(1, min(world_size, n) + 1)
+    if ranks_per_case is not None:
+        candidates = [max(1, min(world_size // ranks_per_case, n))]
     best = None
-    for groups in range(1, min(world_size, n) + 1):
+    for groups in candidates:
         speeds = [size ** efficiency_exponent for size in _group_sizes(world_size, groups)]
         finish = [0.0] * groups
         assignment = [[] for _ in range(groups)]
@@ -690,7 +700,7 @@ def _run_one(runner, cache, tier_case, key, inputs, token, group_comm, *, force,
 
 
 def run_regression(case_paths, *, tier="quick", results_dir="results", baselines_dir=None, fresh=False,
-                   force=False, runner=None, loader=None, log=None, world=None):
+                   force=False, runner=None, loader=None, log=None, world=None, ranks_per_case=None):
     """Run (or read from the cache) every case and compare it with its baseline.
 
     Parameters
@@ -716,6 +726,9 @@ def run_regression(case_paths, *, tier="quick", results_dir="results", baselines
         Receives one-line progress messages (default: stderr of the printing rank).
     world : MPI communicator, optional
         Default: detected (``mpirun``), else serial.
+    ranks_per_case : int, optional
+        Under MPI, ranks per process group; default chosen from the case sizes
+        (:func:`plan_process_groups`).
 
     Returns
     -------
@@ -774,7 +787,8 @@ def run_regression(case_paths, *, tier="quick", results_dir="results", baselines
             plan = None
             if world.rank == 0:
                 costs = [estimate_case_cost(loaded[i][2]) for i in to_run]
-                plan = [[to_run[j] for j in group] for group in plan_process_groups(costs, world.size)]
+                plan = [[to_run[j] for j in group]
+                        for group in plan_process_groups(costs, world.size, ranks_per_case=ranks_per_case)]
             plan = world.bcast(plan, root=0)
             group, group_comm, meep = _divide(world, len(plan))
         else:
@@ -933,6 +947,16 @@ def junit_cases(outcomes, tier):
 # --- command line -----------------------------------------------------------------------------
 
 
+def _positive_int(text):
+    try:
+        value = int(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"expected a whole number, got {text!r}") from None
+    if value < 1:
+        raise argparse.ArgumentTypeError(f"must be at least 1, got {value}")
+    return value
+
+
 def add_regress_arguments(parser):
     """Add the ``regress`` options to an argparse (sub)parser."""
     parser.add_argument("cases", nargs="*", metavar="CASE",
@@ -948,6 +972,9 @@ def add_regress_arguments(parser):
     parser.add_argument("--fresh", action="store_true", help="ignore cached results and run every case again")
     parser.add_argument("--force", action="store_true", help="passed on to each run (run even if the estimate "
                                                              "exceeds free memory)")
+    parser.add_argument("--ranks-per-case", type=_positive_int, metavar="N",
+                        help="under mpirun: ranks per process group, i.e. per case run at a time "
+                             "(default: chosen from the case sizes)")
     parser.add_argument("--junit", metavar="FILE",
                         help="JUnit XML output (default: <results>/regress-<tier>.junit.xml)")
     parser.add_argument("--json", action="store_true",
@@ -1003,7 +1030,8 @@ def regress_command(args, *, runner=None, loader=None, world=None):
     with _TerminateAsExit(), contextlib.redirect_stdout(sys.stderr):
         paths = find_case_files(args.cases)
         outcomes = run_regression(paths, tier=args.tier, results_dir=results_dir, baselines_dir=args.baselines,
-                                  fresh=args.fresh, force=args.force, runner=runner, loader=loader, world=world)
+                                  fresh=args.fresh, force=args.force, runner=runner, loader=loader, world=world,
+                                  ranks_per_case=getattr(args, "ranks_per_case", None))
     error, status = None, 0
     if world.rank == 0:
         try:

@@ -229,6 +229,12 @@ def test_plan_balances_cases_over_groups():
     assert plan_process_groups([1.0] * 5, 1) == [[0, 1, 2, 3, 4]]
     with pytest.raises(ValueError, match="world_size"):
         plan_process_groups([1.0], 0)
+    # --ranks-per-case fixes the group count: one rank per case splits even a dominant case off
+    assert plan_process_groups([10.0, 0.1], 2, ranks_per_case=1) == [[0], [1]]
+    assert plan_process_groups([1.0, 1.0], 2, ranks_per_case=2) == [[0, 1]]
+    assert plan_process_groups([1.0, 1.0], 2, ranks_per_case=5) == [[0, 1]]
+    with pytest.raises(ValueError, match="ranks_per_case"):
+        plan_process_groups([1.0], 2, ranks_per_case=0)
 
 
 def test_case_cost_grows_with_size_and_dimension(workspace):
