@@ -184,3 +184,15 @@ def test_layout_estimate_counts_the_cells_meep_builds():
                          capture_output=True, text=True, timeout=120, check=True).stdout
     grid = json.loads(next(line for line in out.splitlines() if line.startswith("[")))
     assert estimate_for_layout(layout, 1, use_symmetry=False).cells == math.prod(grid)
+
+
+@pytest.mark.fullwave
+def test_stepping_rate_measured_once_and_cached(tmp_path):
+    cache = tmp_path / "hornproof" / "rate.json"
+    rate = stepping_rate(str(cache), measure=True)
+    # plausibility band for one CPU core (common practice: 1e6–1e9 cell updates per second
+    # for a 3D FDTD code; this machine's default is 1.1e8)
+    assert 1e6 < rate < 1e9
+    stored = json.loads(cache.read_text())
+    assert stored["cell_steps_per_second"] == rate
+    assert stepping_rate(str(cache), measure=True) == rate  # read back, not measured again
