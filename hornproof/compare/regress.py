@@ -491,6 +491,21 @@ def _mpi_world():
     return world if world.Get_size() > 1 else None
 
 
+def _wait_idle(comm, poll_seconds=0.05):
+    """Wait until every rank of ``comm`` has arrived, sleeping between checks.
+
+    A blocking MPI barrier busy-polls (Open MPI spins a core at 100 %): a rank whose process
+    group finished early would take a core from the groups still running Meep.
+    """
+    start = getattr(comm, "Ibarrier", None)
+    if start is None:
+        comm.Barrier()
+        return
+    request = start()
+    while not request.Test():
+        time.sleep(poll_seconds)
+
+
 def _divide(world, groups):
     """Split the ranks into ``groups`` process groups; return (group index, group communicator)."""
     try:
@@ -808,6 +823,7 @@ def run_regression(case_paths, *, tier="quick", results_dir="results", baselines
         finally:
             if meep is not None and world.size > 1:
                 meep.end_divide_parallel()
+        _wait_idle(world)  # a rank done early sleeps here instead of spinning in MPI
         gathered = world.gather(records, root=0)
         if world.rank == 0:
             records = {}

@@ -98,6 +98,8 @@ def runner(case, out_dir, *, force=False, progress=None):
         log.write(f"{case.name} {rank}\\n")
     if case.name in os.environ.get("FAKE_FAIL", "").split(","):
         raise RunError(f"{case.name}: diverged after 400 periods")
+    if case.name == os.environ.get("FAKE_IDLE_SLOW"):
+        time.sleep(float(os.environ.get("FAKE_SLEEP", "4")))  # slow without using the processor
     if case.name == os.environ.get("FAKE_SLOW"):
         # leave something that looks like a result in the run folder, then take long
         (Path(out_dir) / "result.json").write_text(json.dumps(synthetic_result(case)))
@@ -109,8 +111,13 @@ def runner(case, out_dir, *, force=False, progress=None):
 
 
 if __name__ == "__main__":
+    import resource
     from hornproof.compare.regress import main
-    sys.exit(main(sys.argv[1:], runner=runner))
+    code = main(sys.argv[1:], runner=runner)
+    usage = resource.getrusage(resource.RUSAGE_SELF)
+    rank = os.environ.get("OMPI_COMM_WORLD_RANK", "serial")
+    print(f"cpu-seconds rank {rank}: {usage.ru_utime + usage.ru_stime:.2f}", file=sys.stderr)
+    sys.exit(code)
 '''
 
 
@@ -405,7 +412,7 @@ def test_missing_case_path_exits_2(workspace, capsys):
 def _subprocess_env(ws, **extra):
     env = dict(os.environ)
     env.update({"FAKE_LOG": str(ws["log"]), "PYTHONPATH": str(REPO)})
-    for name in ("FAKE_SHIFT", "FAKE_FAIL", "FAKE_SLOW", "FAKE_MEEP"):
+    for name in ("FAKE_SHIFT", "FAKE_FAIL", "FAKE_SLOW", "FAKE_MEEP", "FAKE_IDLE_SLOW", "FAKE_SLEEP"):
         env.pop(name, None)
     env.update(extra)
     return env
@@ -669,3 +676,24 @@ def test_real_runs_under_mpirun_give_the_serial_table(real_cases):
     assert _table(parallel.stdout) == _table(serial_again.stdout)
     document = json.loads((real_cases / "results" / "regress.json").read_text())
     assert {f["status"] for c in document["cases"] for f in c["figures"]} == {"unchanged"}
+
+
+@pytest.mark.fullwave
+@pytest.mark.skipif(shutil.which("mpirun") is None, reason="needs mpirun (openmpi-bin)")
+def test_rank_that_finished_early_does_not_spin(workspace):
+    # A blocking MPI barrier busy-polls a core (Open MPI's default; seen here: 5.0 CPU seconds in a
+    # 6 s wait). The rank whose group finished first must sleep while it waits for the others.
+    ws = workspace
+    (ws["cases"] / "horn-c.toml").unlink()
+    env = _subprocess_env(ws, FAKE_IDLE_SLOW="horn-b", FAKE_SLEEP="4")
+    command = [sys.executable, str(ws["driver"]), "--results", "results", "--fresh", "--ranks-per-case", "1"]
+    done = subprocess.run(MPIRUN + command, cwd=ws["root"], env=env, capture_output=True, text=True, timeout=300)
+    assert done.returncode == 0, done.stderr
+    ranks = {}
+    for line in done.stderr.splitlines():
+        if line.startswith("cpu-seconds rank "):  # "cpu-seconds rank <r>: <seconds>"
+            rank, seconds = line[len("cpu-seconds rank "):].split(":")
+            ranks[rank] = float(seconds)
+    waiting = [rank for name, rank in (line.split() for line in _runs(ws)) if name == "horn-a"][0]
+    assert set(ranks) == {"0", "1"}
+    assert ranks[waiting] < 2.0, ranks  # start-up costs about 0.6 s; spinning would add about 4 s
