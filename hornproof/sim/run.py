@@ -153,7 +153,8 @@ def simulate(horn, frequencies, settings, cells_per_wavelength, *, progress=None
         ``run`` metadata: wall_thickness_modelled_m, wall_thickness_requested_m,
         cells_per_wavelength, resolution_cells_per_m, grid_step_m, cell_size_m, grid_cells,
         seconds_total, seconds_stepping, meep_version, symmetry, timesteps, meep_time,
-        time_cap, mpi_processes, cells_across_guide_b, modelled_guide_a_m, modelled_guide_b_m,
+        time_cap, mpi_processes, cells_across_guide_b, warnings (list of one-line strings,
+        e.g. a staircase that may reflect coherently), modelled_guide_a_m, modelled_guide_b_m,
         modelled_aperture_a_m, modelled_aperture_b_m, modelled_flare_length_m (sizes as
         rounded to whole cells), layout (dict).
     """
@@ -213,6 +214,7 @@ def simulate(horn, frequencies, settings, cells_per_wavelength, *, progress=None
         "time_cap": float(state["time_cap"]),
         "mpi_processes": int(mp.count_processors()),
         "cells_across_guide_b": horn.guide_b / layout.unit_length * layout.resolution,
+        "warnings": md.staircase_warnings(layout, fm),
         # the model rounds every size to whole cells (faces on grid planes; see sim.model)
         "modelled_guide_a_m": layout.guide_a * layout.unit_length,
         "modelled_guide_b_m": layout.guide_b * layout.unit_length,

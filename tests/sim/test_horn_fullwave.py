@@ -111,15 +111,26 @@ def test_mirror_symmetric_run_equals_full_run():
 
 
 @pytest.mark.fullwave
-def test_gentle_horn_directivity_matches_aperture_theory_at_12_cells():
+def test_gentle_horn_directivity_matches_aperture_theory_at_16_cells():
     from hornproof.sim.run import simulate
 
-    result = simulate(GENTLE, np.array([10e9]), FdtdSettings(pattern_step_deg=3.0), 12)
+    result = simulate(GENTLE, np.array([10e9]), FdtdSettings(pattern_step_deg=3.0), 16)
     expected = 10 * np.log10(aperture_directivity(GENTLE, 10e9))
-    # within 0.5 dB of aperture theory (measured here: 19.19 / 18.96 dBi at 10 / 14 cells
-    # against 18.98 dBi); the coarse grid rounds b = 0.34 λ to whole cells, hence 12 cells
+    # within 0.5 dB of aperture theory (measured here at 10 GHz: 19.19 / 19.41 / 19.07 /
+    # 19.15 dBi at 10 / 12 / 16 / 20 cells against 18.98 dBi). 16 cells, not fewer: at 10 and
+    # 12 the wall staircase steps every ~λ/2 and reflects coherently (S11 −1.3 dB at 12 cells)
     assert result.directivity_dbi[0] == pytest.approx(expected, abs=0.5)
-    assert abs(result.extra["power_balance_error"][0]) < 0.03
+    assert not result.run["warnings"]
+    assert abs(result.extra["power_balance_error"][0]) < 0.02
+    # a long gentle flare is well matched: |S11| < −20 dB (common practice; measured −33 dB)
+    assert result.extra["s11_db"][0] < -20.0
+
+
+def test_coarse_staircase_is_flagged():
+    from hornproof.sim import model
+
+    layout = model.plan_layout(GENTLE, np.array([9e9, 10e9]), FdtdSettings(), 12)
+    assert model.staircase_warnings(layout, layout.meep_frequency(np.array([9e9, 10e9])))
 
 
 @pytest.mark.fullwave
