@@ -230,7 +230,10 @@ def test_plan_balances_cases_over_groups():
     plan = plan_process_groups([1.0, 1.0], 2)
     assert plan == [[0], [1]]                          # two equal cases: one rank each
     plan = plan_process_groups([10.0, 0.1], 2)
-    assert plan == [[0, 1]]                            # one big case: both ranks on it
+    assert plan == [[0, 1]]                            # one case of nearly all the work: both ranks on it
+    # the shipped quick suite's estimated shape: one 3D case about 6x all five 2D cases together;
+    # measured here, two 1-rank groups beat one 2-rank group for it (see PARALLEL_EFFICIENCY_EXPONENT)
+    assert plan_process_groups([877.0, 27.0, 17.0, 55.0, 23.0, 20.0], 2) == [[0], [1, 2, 3, 4, 5]]
     plan = plan_process_groups([4.0, 3.0, 2.0, 1.0], 2)
     assert len(plan) == 2 and every(plan, 4) and sorted(map(sorted, plan)) == [[0, 3], [1, 2]]
     assert plan_process_groups([1.0] * 5, 1) == [[0, 1, 2, 3, 4]]
