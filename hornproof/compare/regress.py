@@ -124,10 +124,14 @@ class FigureVerdict:
     noise: float = None  # √(u_base² + u_new²) there
     at_frequency_ghz: float = None
     reason: str = ""
+    baseline_value: float = None  # at the decisive frequency
+    new_value: float = None
 
     def to_dict(self):
         return {
             "figure": self.figure,
+            "baseline_value": self.baseline_value,
+            "new_value": self.new_value,
             "unit": FIGURE_UNITS.get(self.figure, ""),
             "status": self.status,
             "tolerance": self.tolerance,
@@ -210,6 +214,7 @@ def classify_figure(figure, base_values, base_uncertainty, new_values, new_uncer
     verdict.status = "regressed" if regressed else "within-noise"
     _, _, i, verdict.max_change, verdict.noise = max(regressed or changed, key=lambda c: (c[0], -c[2]))
     verdict.at_frequency_ghz = frequencies_ghz[i]
+    verdict.baseline_value, verdict.new_value = base_values[i], new_values[i]
     if verdict.max_change is None:
         b, v = base_values[i], new_values[i]
         verdict.reason = (f"undefined now (was {b:.4g})" if v is None else f"was undefined, now {v:.4g}") + \

@@ -200,6 +200,7 @@ def test_classify_one_figure(shift, u, tolerance, expected):
     assert verdict.status == expected
     if expected != "unchanged":
         assert verdict.at_frequency_ghz == 10.0
+        assert (verdict.baseline_value, verdict.new_value) == (16.0, 16.0 + shift)
         assert verdict.max_change == pytest.approx(shift)
         assert verdict.noise == pytest.approx(2 ** 0.5 * (u or 0.0))
 
