@@ -29,7 +29,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from ..errors import RunError
-from ..units import SPEED_OF_LIGHT, db10, db20
+from ..units import db10, db20
 from . import farfield as ff
 from . import feed as fd
 from . import model as md
