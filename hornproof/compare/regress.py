@@ -724,7 +724,8 @@ def _run_one(runner, cache, tier_case, key, inputs, token, group_comm, *, force,
 
 
 def run_regression(case_paths, *, tier="quick", results_dir="results", baselines_dir=None, fresh=False,
-                   force=False, runner=None, loader=None, log=None, world=None, ranks_per_case=None):
+                   force=False, runner=None, loader=None, log=None, world=None, ranks_per_case=None,
+                   cache_only=False):
     """Run (or read from the cache) every case and compare it with its baseline.
 
     Parameters
@@ -753,6 +754,8 @@ def run_regression(case_paths, *, tier="quick", results_dir="results", baselines
     ranks_per_case : int, optional
         Under MPI, ranks per process group; default chosen from the case sizes
         (:func:`plan_process_groups`).
+    cache_only : bool
+        Run nothing: a case without a cached result is "failed" (not run).
 
     Returns
     -------
@@ -799,9 +802,16 @@ def run_regression(case_paths, *, tier="quick", results_dir="results", baselines
                 outcome.result_dir = _display_path(cache.entry_dir(outcome.name, outcome.key))
         for note in notes:
             log(note)
-        log(f"{len(loaded)} case(s), tier {tier}: {len(loaded) - len(to_run)} from cache, {len(to_run)} to run"
-            + (f" on {world.size} ranks" if world.size > 1 else ""))
+        if cache_only:
+            log(f"{len(loaded)} case(s), tier {tier}: {len(loaded) - len(to_run)} from cache, "
+                f"{len(to_run)} without a cached result (not run: --cache-only)")
+        else:
+            log(f"{len(loaded)} case(s), tier {tier}: {len(loaded) - len(to_run)} from cache, {len(to_run)} to run"
+                + (f" on {world.size} ranks" if world.size > 1 else ""))
     to_run = world.bcast(to_run, root=0)
+    not_run = []
+    if cache_only:
+        not_run, to_run = to_run, []
     token = world.bcast(uuid.uuid4().hex[:12] if world.rank == 0 else None, root=0)
     runner = runner or (_default_runner() if to_run else None)
 
@@ -842,6 +852,9 @@ def run_regression(case_paths, *, tier="quick", results_dir="results", baselines
     if world.rank != 0:
         return None
 
+    for index in not_run:
+        outcomes[index].status = "failed"
+        outcomes[index].reason = "no cached result and --cache-only given (not run)"
     for index in to_run:
         outcome, record = outcomes[index], records.get(index)
         if record is None:
@@ -995,6 +1008,8 @@ def add_regress_arguments(parser):
     parser.add_argument("--results", metavar="DIR", default="results",
                         help="result cache folder (default: results)")
     parser.add_argument("--fresh", action="store_true", help="ignore cached results and run every case again")
+    parser.add_argument("--cache-only", action="store_true",
+                        help="run nothing: compare the cached results; a case without one counts as failed")
     parser.add_argument("--force", action="store_true", help="passed on to each run (run even if the estimate "
                                                              "exceeds free memory)")
     parser.add_argument("--ranks-per-case", type=_positive_int, metavar="N",
@@ -1044,6 +1059,8 @@ def regress_command(args, *, runner=None, loader=None, world=None):
     if world is None:
         with contextlib.redirect_stdout(sys.stderr):  # Meep's banner when MPI starts
             world = _mpi_world() or _SerialWorld()
+    if getattr(args, "cache_only", False) and args.fresh:
+        raise InputError("--fresh and --cache-only exclude each other: choose one")
     results_dir = Path(args.results)
     try:
         results_dir.mkdir(parents=True, exist_ok=True)
@@ -1056,7 +1073,8 @@ def regress_command(args, *, runner=None, loader=None, world=None):
         paths = find_case_files(args.cases)
         outcomes = run_regression(paths, tier=args.tier, results_dir=results_dir, baselines_dir=args.baselines,
                                   fresh=args.fresh, force=args.force, runner=runner, loader=loader, world=world,
-                                  ranks_per_case=getattr(args, "ranks_per_case", None))
+                                  ranks_per_case=getattr(args, "ranks_per_case", None),
+                                  cache_only=getattr(args, "cache_only", False))
     error, status = None, 0
     if world.rank == 0:
         try:

@@ -700,3 +700,14 @@ def test_rank_that_finished_early_does_not_spin(workspace):
     waiting = [rank for name, rank in (line.split() for line in _runs(ws)) if name == "horn-a"][0]
     assert set(ranks) == {"0", "1"}
     assert ranks[waiting] < 2.0, ranks  # start-up costs about 0.6 s; spinning would add about 4 s
+
+
+def test_cache_only_runs_nothing(workspace, capsys):
+    _run(workspace, "cases/horn-a.toml", capsys=capsys)
+    code, out = _run(workspace, "--cache-only", capsys=capsys)
+    assert code == 1 and len(_runs(workspace)) == 1
+    statuses = {c["case"]: c["status"] for c in _summary(workspace)["cases"]}
+    assert statuses == {"horn-a": "new", "horn-b": "failed", "horn-c": "failed"}
+    assert "--cache-only" in next(c for c in _summary(workspace)["cases"] if c["case"] == "horn-b")["reason"]
+    code, out = _run(workspace, "--cache-only", "--fresh", capsys=capsys)
+    assert code == 2 and "exclude each other" in out.err
