@@ -7,6 +7,7 @@ Anything else is a bug and keeps its traceback.
 """
 
 import argparse
+import contextlib
 import sys
 
 from .. import __version__
@@ -129,8 +130,14 @@ def dispatch(args):
 def main(argv=None):
     parser = build_parser()
     args = parser.parse_args(argv)
+    from . import summary
+
+    summary.set_result_stream(sys.stdout)
     try:
-        return dispatch(args) or 0
+        if args.command == "regress":  # regress keeps its own standard-output discipline
+            return dispatch(args) or 0
+        with contextlib.redirect_stdout(sys.stderr):  # solver banners go to standard error
+            return dispatch(args) or 0
     except HornproofError as error:
         if args.debug:
             raise
@@ -140,6 +147,19 @@ def main(argv=None):
     except KeyboardInterrupt:
         print("hornproof: interrupted", file=sys.stderr)
         return 130
+    finally:
+        summary.set_result_stream(None)
+        _quiet_meep_exit()
+
+
+def _quiet_meep_exit():
+    """Meep reports "Elapsed run time" on standard output at exit; hornproof reports its own times."""
+    module = sys.modules.get("meep")
+    report = getattr(module, "report_elapsed_time", None) if module is not None else None
+    if report is not None:
+        import atexit
+
+        atexit.unregister(report)
 
 
 if __name__ == "__main__":  # pragma: no cover

@@ -18,7 +18,7 @@ import numpy as np
 
 from ..errors import InputError
 from ..units import GHZ, MM
-from .summary import SAFETY_NOTE, jsonable, safety_lines
+from .summary import SAFETY_NOTE, jsonable, safety_lines, emit
 
 
 def add_design_arguments(parser):
@@ -173,9 +173,9 @@ def design_command(args):
             raise InputError(f"{path}: --write-case: the file exists; refusing to overwrite it")
         write_text_atomic(path, case_text(summary, args.design_kind))
     if args.json:
-        sys.stdout.write(json.dumps(summary, indent=1) + "\n")
+        emit(json.dumps(summary, indent=1) + "\n")
     else:
-        print(format_design(summary))
+        emit(format_design(summary))
         if args.write_case:
-            print(f"  case file written: {args.write_case}")
+            emit(f"  case file written: {args.write_case}")
     return 0

@@ -6,7 +6,7 @@ import numpy as np
 
 from ..analytic.predict import predict
 from .casefile import load_case
-from .summary import base_summary, dumps, safety_lines
+from .summary import base_summary, dumps, safety_lines, emit
 
 
 def predict_case(case, equivalent="huygens"):
@@ -63,7 +63,7 @@ def predict_command(args):
     case = load_case(args.case)
     summary, _ = predict_case(case, equivalent=args.equivalent)
     if args.json:
-        sys.stdout.write(dumps(summary))
+        emit(dumps(summary))
     else:
-        print(format_table(summary))
+        emit(format_table(summary))
     return 0

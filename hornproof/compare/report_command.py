@@ -4,6 +4,7 @@ import json
 from pathlib import Path
 
 from ..errors import InputError
+from .summary import emit
 
 
 def report_command(args):
@@ -24,5 +25,5 @@ def report_command(args):
         path = build_report(folder)
     else:
         raise InputError(f"{folder}: no result.json or sweep.json in this folder")
-    print(path)
+    emit(path)
     return 0

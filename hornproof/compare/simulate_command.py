@@ -9,7 +9,7 @@ from pathlib import Path
 import numpy as np
 
 from .casefile import load_case
-from .summary import base_summary, dumps, jsonable, safety_lines
+from .summary import base_summary, dumps, jsonable, safety_lines, emit
 
 
 def simulate_case(case, cells_per_wavelength, out_dir, *, force=False, image=False):
@@ -18,7 +18,7 @@ def simulate_case(case, cells_per_wavelength, out_dir, *, force=False, image=Fal
     from ..sim.output import write_fields_h5
     from ..sim.run import simulate
     from ..sim.touchstone import write_s1p
-    from .verify import _fdtd_figures, _is_master, _say, solver_block
+    from .verify import _fdtd_figures, _is_master, _say, solver_block, solver_warnings
 
     _say(f"hornproof: FDTD {case.fdtd.dims}D model at {cells_per_wavelength:g} cells per wavelength")
     result = simulate(case.horn, case.frequencies, case.fdtd, cells_per_wavelength, force=force)
@@ -28,6 +28,9 @@ def simulate_case(case, cells_per_wavelength, out_dir, *, force=False, image=Fal
     fdtd["wall_thickness_modelled_mm"] = result.run.get("wall_thickness_modelled_m", np.nan) * 1e3
     summary["models"]["fdtd"] = fdtd
     summary["solver"] = solver_block(case, [result], [cells_per_wavelength], result.run.get("seconds_total"))
+    summary["warnings"] = list(summary.get("warnings", [])) + solver_warnings([result], [cells_per_wavelength])
+    for warning in result.run.get("warnings", []) or []:
+        _say(f"hornproof: warning: {warning}")
     summary = jsonable(summary)
     if _is_master():
         out_dir = Path(out_dir)
@@ -86,8 +89,8 @@ def simulate_command(args):
 
     if _is_master():
         if args.json:
-            sys.stdout.write(dumps(summary))
+            emit(dumps(summary))
         else:
-            print(format_fdtd(summary))
+            emit(format_fdtd(summary))
             print(f"  results: {out_dir}")
     return 0

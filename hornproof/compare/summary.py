@@ -62,6 +62,29 @@ def base_summary(case):
     }
 
 
+_result_stream = None
+
+
+def set_result_stream(stream):
+    """Where ``emit`` writes: the command's real standard output (set by the command line)."""
+    global _result_stream
+    _result_stream = stream
+
+
+def emit(text=""):
+    """Write a command's result (table or JSON) to standard output.
+
+    While a command runs, the command line points ``sys.stdout`` at standard error so that what
+    the solver prints (Meep's banners) never mixes with ``--json`` output; results go here.
+    """
+    import sys
+
+    stream = _result_stream or sys.stdout
+    text = str(text)
+    stream.write(text if text.endswith("\n") else text + "\n")
+    stream.flush()
+
+
 def safety_lines(indent="  ", width=96):
     """The RF-exposure caution wrapped for a terminal."""
     import textwrap

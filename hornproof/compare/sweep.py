@@ -26,7 +26,7 @@ import numpy as np
 from .. import __version__
 from ..errors import InputError
 from .casefile import load_case
-from .summary import SAFETY_NOTE, dumps, jsonable, safety_lines
+from .summary import SAFETY_NOTE, dumps, jsonable, safety_lines, emit
 
 SCHEMA = "hornproof.sweep/1"
 
@@ -352,8 +352,8 @@ def sweep_command(args):
 
     if _is_master():
         if args.json:
-            sys.stdout.write(dumps(document))
+            emit(dumps(document))
         else:
-            print(format_sweep(document))
+            emit(format_sweep(document))
             print(f"  report: {out_dir / 'report.html'}")
     return 0

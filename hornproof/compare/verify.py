@@ -20,7 +20,7 @@ import numpy as np
 from ..errors import InputError, RunError
 from .casefile import load_case
 from .predict_command import predict_case
-from .summary import dumps, jsonable, safety_lines
+from .summary import dumps, jsonable, safety_lines, emit
 
 #: case-file check name -> comparison metrics it applies to (verdict.COMPARED_FIGURES keys)
 CHECK_METRICS = {
@@ -90,12 +90,25 @@ def run_fdtd_ladder(case, ladder, *, force=False, log=_say):
         d = np.asarray(result.directivity_dbi)
         log(f"hornproof:   done in {seconds:.1f} s; {key.replace('_', ' ')} {np.nanmin(d):.2f}..{np.nanmax(d):.2f}, "
             f"power balance error {np.nanmax(np.abs(result.extra.get('power_balance_error', [np.nan]))) * 100:.1f} %")
+        for warning in result.run.get("warnings", []) or []:
+            log(f"hornproof: warning: {warning}")
         results[i] = result
     return results
 
 
+def solver_warnings(sim_results, ladder):
+    """The solver's one-line warnings, each tagged with the grid it came from."""
+    out = []
+    for cpw, result in zip(ladder, sim_results):
+        for warning in result.run.get("warnings", []) or []:
+            out.append(f"FDTD at {cpw:g} cells per wavelength: {warning}")
+    return out
+
+
 def _fdtd_figures(result):
-    figures = result.to_model_result().figures()
+    """JSON-ready per-frequency FDTD figures (cut arrays stay in fields.h5)."""
+    figures = {key: value for key, value in result.to_model_result().figures().items()
+               if not (isinstance(value, list) and value and isinstance(value[0], list))}
     extra = result.extra
     for key in ("gain_dbi", "realized_gain_dbi", "s11_db", "s11_real", "s11_imag", "vswr",
                 "power_balance_error", "incident_power", "reflected_power", "radiated_power"):
@@ -292,6 +305,9 @@ def solver_block(case, sim_results, ladder, seconds):
         "wall_thickness_requested_mm": run.get("wall_thickness_requested_m", np.nan) * 1e3,
         "wall_thickness_modelled_mm": [r.run.get("wall_thickness_modelled_m", np.nan) * 1e3 for r in sim_results],
         "cells_across_guide_b": [r.run.get("cells_across_guide_b") for r in sim_results],
+        "modelled_sizes_mm": [{k[len("modelled_"):-2] + "_mm": v * 1e3 for k, v in r.run.items()
+                               if k.startswith("modelled_") and k.endswith("_m") and isinstance(v, (int, float))}
+                              for r in sim_results],
         "symmetry": run.get("symmetry"),
         "mpi_processes": run.get("mpi_processes"),
         "timesteps": [r.run.get("timesteps") for r in sim_results],
@@ -367,6 +383,7 @@ def verify_case(case, out_dir=None, *, force=False, progress=None, ladder=None):
                              "agrees" if (comparison["metrics"] or extra_checks) else "no checks")
     summary["comparison"] = comparison
     summary["solver"] = solver_block(case, sim_results, ladder, time.monotonic() - t0)
+    summary["warnings"] = list(summary.get("warnings", [])) + solver_warnings(sim_results, ladder)
     summary = jsonable(summary)
     if _is_master():
         _publish(out_dir, case, summary, models, sim_results, ladder, uncertainty, estimates)
@@ -438,8 +455,8 @@ def verify_command(args):
     summary = verify_case(case, out_dir, force=args.force)
     if _is_master():
         if args.json:
-            sys.stdout.write(dumps(summary))
+            emit(dumps(summary))
         else:
-            print(format_verdicts(summary))
+            emit(format_verdicts(summary))
             print(f"  report: {out_dir / 'report.html'}")
     return 1 if summary["comparison"]["failed_checks"] else 0
