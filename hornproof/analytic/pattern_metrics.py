@@ -19,7 +19,7 @@ Definitions (per cut):
   beyond 90°); NaN if either side never crosses.
 * **First null** (each side): the first local minimum beyond the half-power crossing whose
   prominence (depth below the lower of the two neighbouring maxima, as in
-  ``scipy.signal.find_peaks``) is at least ``null_prominence_db`` (default 1 dB), so that
+  ``scipy.signal.find_peaks``) is at least ``null_prominence_db`` (default ``NULL_PROMINENCE_DB`` = 3 dB), so that
   ripple from noise on the flank of the main lobe is not taken for a null. Its angle is refined
   from the nearby samples: a parabola in *linear power* for a shallow (filled) null, the root
   of the signed amplitude for a deep one (see ``_refine_min_linear``). Searched only within ``max_angle_deg`` of boresight (default 90°: the
@@ -46,6 +46,12 @@ METRIC_KEYS = (
 )
 
 _FLOOR_BELOW_PEAK_DB = 400.0
+#: least depth (dB) of a dip to count as a null, and of a lobe to count as a sidelobe.
+#: hornproof's choice, not a published rule: 1 dB let a full-wave pattern's shallow dip on a
+#: filled first null (a shoulder in the aperture models) count as a null in one model and not
+#: in the other; 3 dB keeps ripple and shoulders out and every real null of the tests in.
+NULL_PROMINENCE_DB = 3.0
+
 #: half power in dB, −10 log10 2 ≈ −3.0103 dB
 HALF_POWER_DB = -10.0 * np.log10(2.0)
 
@@ -222,7 +228,7 @@ def _one_cut(theta, p, max_angle_deg, null_prominence_db, sidelobe, peak_fit_db)
     return out
 
 
-def cut_metrics(theta_deg, pattern_db, *, max_angle_deg=90.0, null_prominence_db=1.0, sidelobe="highest",
+def cut_metrics(theta_deg, pattern_db, *, max_angle_deg=90.0, null_prominence_db=NULL_PROMINENCE_DB, sidelobe="highest",
                 peak_fit_db=None):
     """All beam metrics of sampled cuts.
 
