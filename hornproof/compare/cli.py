@@ -142,7 +142,8 @@ def main(argv=None):
         if args.debug:
             raise
         message = str(error).splitlines()[0] if str(error) else type(error).__name__
-        print(f"hornproof: error: {message}", file=sys.stderr)
+        if _is_global_master():  # every MPI rank raises the same error; one prints it
+            print(f"hornproof: error: {message}", file=sys.stderr)
         return error.exit_code
     except KeyboardInterrupt:
         print("hornproof: interrupted", file=sys.stderr)
@@ -150,6 +151,17 @@ def main(argv=None):
     finally:
         summary.set_result_stream(None)
         _quiet_meep_exit()
+
+
+def _is_global_master():
+    if "meep" not in sys.modules:
+        return True
+    try:
+        from ..sim.mpi import is_master
+
+        return is_master()
+    except Exception:  # pragma: no cover
+        return True
 
 
 def _quiet_meep_exit():

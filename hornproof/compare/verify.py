@@ -48,10 +48,13 @@ def default_out_dir(case):
 
 
 def _is_master():
+    """True on the process that writes this run's files: the master of the current Meep
+    communicator (rank 0 when serial or unsplit; each group's master under ``regress``'s
+    process groups)."""
     try:
-        from ..sim.mpi import is_master
+        from ..sim.mpi import is_group_master
 
-        return is_master()
+        return is_group_master()
     except Exception:  # pragma: no cover - no MPI layer
         return True
 
