@@ -95,36 +95,27 @@ def build_parser():
     return parser
 
 
+#: subcommand -> (module in hornproof.compare, function taking the parsed arguments)
+COMMANDS = {
+    "predict": ("predict_command", "predict_command"),
+    "simulate": ("simulate_command", "simulate_command"),
+    "verify": ("verify", "verify_command"),
+    "sweep": ("sweep", "sweep_command"),
+    "regress": ("regress", "regress_command"),
+    "design": ("design_command", "design_command"),
+    "report": ("report_command", "report_command"),
+}
+
+
 def dispatch(args):
-    if args.command == "predict":
-        from .predict_command import predict_command
+    """Run the subcommand's module (imported only when used: Meep loads only for FDTD runs)."""
+    import importlib
 
-        return predict_command(args)
-    if args.command == "simulate":
-        from .simulate_command import simulate_command
-
-        return simulate_command(args)
-    if args.command == "verify":
-        from .verify import verify_command
-
-        return verify_command(args)
-    if args.command == "sweep":
-        from .sweep import sweep_command
-
-        return sweep_command(args)
-    if args.command == "regress":
-        from .regress import regress_command
-
-        return regress_command(args)
-    if args.command == "design":
-        from .design_command import design_command
-
-        return design_command(args)
-    if args.command == "report":
-        from .report_command import report_command
-
-        return report_command(args)
-    raise InputError("no command given: try 'hornproof --help'")
+    if args.command not in COMMANDS:
+        raise InputError("no command given: try 'hornproof --help'")
+    module_name, function_name = COMMANDS[args.command]
+    module = importlib.import_module(f"{__package__}.{module_name}")
+    return getattr(module, function_name)(args)
 
 
 def main(argv=None):
@@ -166,12 +157,9 @@ def _is_global_master():
 
 def _quiet_meep_exit():
     """Meep reports "Elapsed run time" on standard output at exit; hornproof reports its own times."""
-    module = sys.modules.get("meep")
-    report = getattr(module, "report_elapsed_time", None) if module is not None else None
-    if report is not None:
-        import atexit
+    from .regress import _silence_meep_exit_banner
 
-        atexit.unregister(report)
+    _silence_meep_exit_banner()
 
 
 if __name__ == "__main__":  # pragma: no cover
