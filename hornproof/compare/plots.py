@@ -188,6 +188,24 @@ def plot_pattern_overlay(theta_deg, closed_form_dbi, exact_phase_dbi, fdtd_dbi, 
     return save_figure(fig, path_stem)
 
 
+def _clip_to_values(ax, series, shape, margin_db=3.0):
+    """Keep the values readable when an error bar is huge: the vertical axis spans the plotted
+    values ± ``margin_db``; bars that run past it are marked with a note."""
+    values = [np.asarray(v, dtype=float).reshape(shape) for v in series if v is not None]
+    if not values:
+        return
+    stack = np.concatenate(values)
+    stack = stack[np.isfinite(stack)]
+    if stack.size == 0:
+        return
+    low, high = float(stack.min()) - margin_db, float(stack.max()) + margin_db
+    current_low, current_high = ax.get_ylim()
+    if current_low < low or current_high > high:
+        ax.set_ylim(max(current_low, low), min(current_high, high))
+        ax.annotate("error bars cut at the axis limits", xy=(0.99, 0.02), xycoords="axes fraction",
+                    ha="right", va="bottom", fontsize=8, color="#555555")
+
+
 def plot_directivity_vs_frequency(frequencies, closed_form_dbi, exact_phase_dbi, fdtd_dbi,
                                   path_stem, *, fdtd_uncertainty_db=None, case_title="",
                                   unit="dBi", quantity="Directivity"):
@@ -231,6 +249,7 @@ def plot_directivity_vs_frequency(frequencies, closed_form_dbi, exact_phase_dbi,
                     ecolor=MODEL_COLOURS["fdtd"], elinewidth=1.2, capsize=4, linestyle="-",
                     linewidth=1.6,
                     label=MODEL_LABELS["fdtd"] + (" ± numerical uncertainty" if err is not None else ""))
+    _clip_to_values(ax, [closed_form_dbi, exact_phase_dbi, fdtd_dbi], f.shape)
     if f.size == 1:
         ax.set_xlim(f_ghz[0] - 0.5, f_ghz[0] + 0.5)
     ax.set_xlabel("Frequency (GHz)")

@@ -378,7 +378,7 @@ def _render_missing_result_figures(folder, result):
         curves = {m: models.get(m, {}).get(key) for m in ("closed_form", "exact_phase", "fdtd")}
         if any(c is not None for c in curves.values()):
             stored = models.get("fdtd", {}).get("uncertainty", {}) or {}
-            unc = stored.get("directivity_db", stored.get("directivity_2d_db"))
+            unc = stored.get(key, stored.get("directivity_db"))
             plots.plot_directivity_vs_frequency(
                 frequencies, *[None if c is None else _floats(c) for c in curves.values()],
                 folder / "directivity_vs_frequency",
