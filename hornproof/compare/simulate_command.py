@@ -18,10 +18,13 @@ def simulate_case(case, cells_per_wavelength, out_dir, *, force=False, image=Fal
     from ..sim.output import write_fields_h5
     from ..sim.run import simulate
     from ..sim.touchstone import write_s1p
-    from .verify import _fdtd_figures, _is_master, _say, solver_block, solver_warnings
+    from .verify import (_fdtd_figures, _is_master, _progress_reporter, _say, resource_line, solver_block,
+                         solver_warnings)
 
     _say(f"hornproof: FDTD {case.fdtd.dims}D model at {cells_per_wavelength:g} cells per wavelength")
-    result = simulate(case.horn, case.frequencies, case.fdtd, cells_per_wavelength, force=force)
+    _say(f"hornproof:   {resource_line(case, cells_per_wavelength)}")
+    result = simulate(case.horn, case.frequencies, case.fdtd, cells_per_wavelength, force=force,
+                      progress=_progress_reporter(case, cells_per_wavelength))
     summary = base_summary(case)
     fdtd = _fdtd_figures(result)
     fdtd["uncertainty"] = {}

@@ -69,6 +69,25 @@ def _relative_cost(cpw, dims):
     return float(cpw) ** (dims + 1)
 
 
+def resource_line(case, cells_per_wavelength):
+    """One line: grid cells and memory the run will take (``sim.estimate``), before it runs."""
+    from ..sim.estimate import available_memory_bytes, estimate_for_layout
+    from ..sim.model import plan_layout
+
+    layout = plan_layout(case.horn, case.frequencies, case.fdtd, cells_per_wavelength)
+    est = estimate_for_layout(layout, len(case.frequencies), use_symmetry=case.fdtd.use_symmetry)
+    free = available_memory_bytes()
+    free_text = "" if free is None else f" of {free / 2**30:.1f} GiB available"
+    return (f"estimate: {est.cells:,} grid cells stored, peak memory about "
+            f"{est.peak_memory_bytes / 2**20:,.0f} MiB{free_text}")
+
+
+def _progress_reporter(case, cells_per_wavelength):
+    from ..sim.progress import ProgressReporter
+
+    return ProgressReporter(f"hornproof:   {case.name} at {cells_per_wavelength:g} cells per wavelength")
+
+
 def run_fdtd_ladder(case, ladder, *, force=False, log=_say):
     """Run the FDTD model once per grid of ``ladder`` (cells per wavelength), coarse first.
 
@@ -85,8 +104,10 @@ def run_fdtd_ladder(case, ladder, *, force=False, log=_say):
         remaining = sum(_relative_cost(ladder[j], dims) for j in order[step - 1:])
         eta = "" if rate is None else f", about {remaining / rate:.0f} s left for the ladder"
         log(f"hornproof: FDTD grid {step}/{len(ladder)}: {cpw:g} cells per wavelength ({dims}D){eta}")
+        log(f"hornproof:   {resource_line(case, cpw)}")
         t0 = time.monotonic()
-        result = simulate(case.horn, case.frequencies, case.fdtd, cpw, force=force)
+        result = simulate(case.horn, case.frequencies, case.fdtd, cpw, force=force,
+                          progress=_progress_reporter(case, cpw))
         seconds = time.monotonic() - t0
         rate = _relative_cost(cpw, dims) / max(seconds, 1e-3)
         key = "directivity_2d_db" if dims == 2 else "directivity_dbi"
