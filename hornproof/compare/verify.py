@@ -409,13 +409,25 @@ def verify_case(case, out_dir=None, *, force=False, progress=None, ladder=None):
     summary["solver"] = solver_block(case, sim_results, ladder, time.monotonic() - t0)
     summary["warnings"] = list(summary.get("warnings", [])) + solver_warnings(sim_results, ladder)
     summary = jsonable(summary)
+    image = _model_image(case, max(ladder), Path(out_dir))
     if _is_master():
-        _publish(out_dir, case, summary, models, sim_results, ladder, uncertainty, estimates)
+        _publish(out_dir, case, summary, models, sim_results, ladder, uncertainty, estimates, image)
         summary["solver"]["seconds"] = time.monotonic() - t0
     return summary
 
 
-def _publish(out_dir, case, summary, models, sim_results, ladder, uncertainty, estimates):
+def _model_image(case, cells_per_wavelength, out_dir):
+    """model.png of the finest grid. Every MPI rank takes part (Meep's arrays are collective);
+    the master writes it beside the result folder, and ``_publish`` moves it in."""
+    from ..sim.model import model_image
+
+    out_dir.parent.mkdir(parents=True, exist_ok=True)
+    path = out_dir.parent / f".{out_dir.name}.model.png"
+    model_image(case.horn, case.fdtd, cells_per_wavelength, path, frequencies=case.frequencies)
+    return path
+
+
+def _publish(out_dir, case, summary, models, sim_results, ladder, uncertainty, estimates, image=None):
     """Write every output into a staging folder, then swap it into place."""
     from .report import build_report
 
@@ -425,6 +437,8 @@ def _publish(out_dir, case, summary, models, sim_results, ladder, uncertainty, e
     try:
         _write_outputs(staging, case, summary, sim_results, ladder)
         _plots(staging, case, summary, models, sim_results, ladder, uncertainty, estimates)
+        if image is not None and image.is_file():
+            os.replace(image, staging / "model.png")
         build_report(staging)
         os.chmod(staging, 0o755)
         if out_dir.exists():
@@ -437,6 +451,8 @@ def _publish(out_dir, case, summary, models, sim_results, ladder, uncertainty, e
             os.replace(staging, out_dir)
     except BaseException:
         shutil.rmtree(staging, ignore_errors=True)
+        if image is not None:
+            Path(image).unlink(missing_ok=True)
         raise
 
 

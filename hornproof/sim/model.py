@@ -368,7 +368,7 @@ def model_image(horn, settings, cells_per_wavelength, path, frequencies=None):
         eps = sim.get_array(center=mp.Vector3(), size=mp.Vector3(*layout.cell_size), component=mp.Dielectric)
         cuts.append(("flared plane (2D model)", eps, layout.cell_size[0]))
     if mp.am_master():
-        fig, axes = plt.subplots(1, len(cuts), figsize=(5 * len(cuts), 6), squeeze=False)
+        fig, axes = plt.subplots(1, len(cuts), figsize=(5 * len(cuts), 6.5 if len(cuts) == 1 else 6), squeeze=False)
         z0 = layout.cell_center_z - layout.cell_size[-1] / 2
         for ax, (name, eps, width) in zip(axes[0], cuts):
             # get_array averages the Yee-point materials of each voxel: a voxel with some
@@ -376,20 +376,29 @@ def model_image(horn, settings, cells_per_wavelength, path, frequencies=None):
             metal = np.where(eps < 0, 1.0, np.where(np.abs(eps - 1.0) > 1e-6, 0.5, 0.0))
             extent = [z0 * mm, (z0 + layout.cell_size[-1]) * mm, -width / 2 * mm, width / 2 * mm]
             ax.imshow(metal, origin="lower", extent=extent, cmap="Greys", aspect="equal", interpolation="nearest")
-            for edge in (layout.pml, ):
-                ax.axhline(width / 2 * mm - edge * mm, color="tab:red", lw=0.6, ls="--")
-                ax.axhline(-width / 2 * mm + edge * mm, color="tab:red", lw=0.6, ls="--")
-            ax.axvline((z0 + layout.pml_back) * mm, color="tab:red", lw=0.6, ls="--")
-            ax.axvline((z0 + layout.cell_size[-1] - layout.pml) * mm, color="tab:red", lw=0.6, ls="--")
-            ax.axvline(layout.source_z * mm, color="tab:orange", lw=0.8, label="source")
-            ax.axvline(layout.box_z[0] * mm, color="tab:blue", lw=0.6, label="near-to-far box")
-            ax.axvline(layout.box_z[1] * mm, color="tab:blue", lw=0.6)
+            from matplotlib.patches import Patch, Rectangle
+
+            inner_low, inner_high = (z0 + layout.pml_back) * mm, (z0 + layout.cell_size[-1] - layout.pml) * mm
+            half = width / 2 * mm - layout.pml * mm
+            ax.add_patch(Rectangle((inner_low, -half), inner_high - inner_low, 2 * half, fill=False,
+                                   edgecolor="tab:red", lw=0.7, ls="--", label="inner edge of the PML"))
+            box_half = layout.box_half[0 if "xz" in name or layout.dims == 2 else 1] * mm
+            ax.add_patch(Rectangle((layout.box_z[0] * mm, -box_half), (layout.box_z[1] - layout.box_z[0]) * mm,
+                                   2 * box_half, fill=False, edgecolor="tab:blue", lw=0.8,
+                                   label="near-to-far / flux surface"))
+            guide = (layout.guide_a if ("xz" in name or layout.transverse == "h") else layout.guide_b) * mm
+            ax.vlines(layout.source_z * mm, -guide / 2, guide / 2, color="tab:orange", lw=1.5,
+                      label="feed source sheet")
+            handles, _ = ax.get_legend_handles_labels()
+            handles = [Patch(facecolor="black", label="PEC wall (every Yee point metal)"),
+                       Patch(facecolor="0.55", label="wall edge (some Yee points metal)")] + handles
             ax.set_title(f"{name}\nwall modelled {layout.wall_thickness_m * 1e3:.3g} mm, "
                          f"{layout.resolution:g} cells/λ at f_max", fontsize=9)
             ax.set_xlabel("z (mm)")
             ax.set_ylabel("transverse (mm)")
-        axes[0][0].legend(loc="upper left", fontsize=7)
-        fig.tight_layout()
+        fig.legend(handles=handles, loc="lower center", ncol=3 if len(cuts) > 1 else 2, fontsize=8, frameon=False)
+        fig.suptitle("Modelled horn\n(the feed guide runs on into the PML behind the source)", fontsize=10)
+        fig.tight_layout(rect=(0, 0.08 if len(cuts) > 1 else 0.13, 1, 0.93))
         fig.savefig(path, dpi=120)
         plt.close(fig)
     return path
