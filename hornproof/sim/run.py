@@ -185,7 +185,7 @@ def simulate(horn, frequencies, settings, cells_per_wavelength, *, progress=None
     mode_monitor = fd.add_mode_monitor(sim, layout, fm)
     guide_flux = fd.add_guide_flux(sim, layout, fm)
     surface = closed_surface(layout)
-    near2far, box_flux = ff.add_surface_monitors(sim, surface, fm)
+    near2far, box_flux = _far_field_monitors(sim, surface, fm, settings)
     name, _ = fd.mode_profile(layout)
     state = {"steps": 0, "t0": time.monotonic()}
     until = _stop_condition(settings, layout, 10.0 / width, float(fm.min()), getattr(mp, name),
@@ -196,8 +196,12 @@ def simulate(horn, frequencies, settings, cells_per_wavelength, *, progress=None
     if sim.meep_time() >= state["time_cap"] - 1e-9:
         raise RunError(f"the DFT fields did not settle to {settings.decay_by:g} within "
                        f"{settings.max_time_periods:g} periods of f_min; raise max_time_periods or decay_by")
+    t_far = time.monotonic()
     result = _post_process(sim, layout, settings, frequencies, fm, mode_monitor, guide_flux, near2far, box_flux)
+    seconds_post = time.monotonic() - t_far
     result.run.update({
+        "farfield_method": _farfield_method(settings),
+        "seconds_post_processing": seconds_post,
         "wall_thickness_modelled_m": layout.wall_thickness_m,
         "wall_thickness_requested_m": float(horn.wall_thickness),
         "cells_per_wavelength": float(cells_per_wavelength),
@@ -238,6 +242,40 @@ def closed_surface(layout):
     centre = (0.0,) * (layout.dims - 1) + (0.5 * (z0 + z1) - layout.cell_center_z,)
     half = tuple(layout.box_half) + (0.5 * (z1 - z0),)
     return ff.ClosedSurface(layout.dims, centre, half, hole_half=layout.guide_footprint_half)
+
+
+def _farfield_method(settings):
+    method = getattr(settings, "farfield_method", "meep")
+    if method not in ("fast", "meep"):
+        raise ValueError(f"settings.farfield_method must be 'fast' or 'meep', got {method!r}")
+    return method
+
+
+def _far_field_monitors(sim, surface, meep_frequencies, settings):
+    """(far-field monitors, box flux). "meep": one near2far object (``ff.far_fields``);
+    "fast": Yee-grid DFT slabs on the same faces for the numpy transform (``ff.fast_far_fields``).
+    The box flux (P_rad) is Meep's in both cases."""
+    import meep as mp
+
+    if _farfield_method(settings) == "meep":
+        return ff.add_surface_monitors(sim, surface, meep_frequencies)
+    monitors = ff.add_current_monitors(sim, surface, meep_frequencies)
+    flux = sim.add_flux(np.asarray(meep_frequencies, dtype=float),
+                        *[mp.FluxRegion(center=mp.Vector3(*c), size=mp.Vector3(*s), weight=w)
+                          for c, s, w in surface.regions()])
+    return monitors, flux
+
+
+def _far_field_evaluator(sim, monitors, meep_frequencies, dims):
+    """A function directions [nd, 3] -> (E, H) [nf, nd, 3] at ``md.FAR_FIELD_DISTANCE``."""
+    import meep as mp
+
+    r = md.FAR_FIELD_DISTANCE
+    nf = len(meep_frequencies)
+    if isinstance(monitors, list):
+        sheets = ff.current_sheets(sim, monitors, nf, dims)
+        return lambda directions: ff.fast_far_fields(sheets, directions, meep_frequencies, r, dims)
+    return lambda directions: ff.far_fields(sim, monitors, [mp.Vector3(*(r * d)) for d in directions], nf)
 
 
 def _mode_power(layout, reflection, meep_frequencies):
@@ -281,6 +319,7 @@ def _post_process(sim, layout, settings, frequencies, fm, mode_monitor, guide_fl
     theta = theta[theta <= 180.0 + 1e-9]
     r = md.FAR_FIELD_DISTANCE
     cuts = {}
+    far_field = _far_field_evaluator(sim, near2far, fm, layout.dims)
     boresight = int(np.argmin(np.abs(theta)))
     planes = ("h", "e") if layout.dims == 3 else (layout.transverse,)
     for plane in planes:
@@ -294,8 +333,7 @@ def _post_process(sim, layout, settings, frequencies, fm, mode_monitor, guide_fl
             else:
                 co = np.stack([directions[:, 1], -directions[:, 0], np.zeros_like(u)], axis=1)
             cross = np.cross(directions, co)
-        points = [mp.Vector3(*(r * d)) for d in directions]
-        e, h = ff.far_fields(sim, near2far, points, nf)
+        e, h = far_field(directions)
         intensity = ff.radiation_intensity(e, h, directions, r, dims=layout.dims)
         co_frac, cross_frac = ff.polarisation_split(e, co, cross)
         d_total = ff.directivity(intensity, p_box, dims=layout.dims)
@@ -339,21 +377,20 @@ def _post_process(sim, layout, settings, frequencies, fm, mode_monitor, guide_fl
         run={"power_units": "Meep units (relative); ratios are meaningful"},
     )
     if settings.full_pattern_step_deg and layout.dims == 3:
-        result.full_pattern = _full_pattern(sim, near2far, settings.full_pattern_step_deg, p_box, nf)
+        result.full_pattern = _full_pattern(far_field, settings.full_pattern_step_deg, p_box)
         result.extra["sphere_power_ratio"] = result.full_pattern["sphere_power_ratio"]
     return result
 
 
-def _full_pattern(sim, near2far, step_deg, p_box, nf):
+def _full_pattern(far_field, step_deg, p_box):
     """Directivity on a (θ, φ) grid and ∮U dΩ / P_box (a power check of the far field)."""
-    import meep as mp
-
     theta = np.arange(0.0, 180.0 + step_deg / 2, step_deg)
     theta = theta[theta <= 180.0 + 1e-9]
     phi = np.arange(0.0, 360.0 - 1e-9, step_deg)
     directions, co, cross = ff.sphere_directions(theta, phi)
     r = md.FAR_FIELD_DISTANCE
-    e, h = ff.far_fields(sim, near2far, [mp.Vector3(*(r * d)) for d in directions], nf)
+    e, h = far_field(directions)
+    nf = e.shape[0]
     intensity = ff.radiation_intensity(e, h, directions, r).reshape(nf, theta.size, phi.size)
     co_frac, _ = ff.polarisation_split(e, co, cross)
     d = ff.directivity(intensity, p_box)
