@@ -373,40 +373,80 @@ def slab_bounds(centre, size, axis, step):
     return monitor_bounds(centre[axis] - size[axis] / 2, centre[axis] + size[axis] / 2, step)
 
 
-def sheet_sum(sheet, directions, wavenumbers):
-    """Σ amplitude · e^{−ik r̂·r'} over one sheet: complex [nf, ndirections].
+def _axis_factor(coordinates, direction_component, k):
+    """e^{−ik r̂_a a} [n, nd], or None when every direction has r̂_a = 0 (the factor is 1)."""
+    if not np.any(direction_component):
+        return None
+    return np.exp(-1j * k * np.outer(coordinates, direction_component))
 
-    Separable phase on a tensor grid: e^{−ik(r̂_a a + r̂_b b + r̂_n n)} = product of 1D factors, so
-    the double sum is one matrix product per frequency. ``directions`` [nd, 3] unit vectors,
-    ``wavenumbers`` [nf] (rad per Meep unit).
+
+def _in_plane_sums(amplitudes, coordinates, axes, directions, k):
+    """Σ over the face of amplitude · e^{−ik (r̂_a a + r̂_b b)} for sheets on one tensor grid.
+
+    ``amplitudes`` [ns, n1(, n2)] at one frequency; returns [ns, nd]. Separable phase: the double
+    sum is one matrix product, and an axis every direction is normal to (r̂_a = 0, as along a
+    principal-plane cut) is summed out first.
+    """
+    nd = directions.shape[0]
+    factors = [_axis_factor(c, directions[:, a], k) for c, a in zip(coordinates, axes)]
+    for axis in range(len(factors) - 1, -1, -1):  # sum out axes with no phase (last first)
+        if factors[axis] is None:
+            amplitudes = amplitudes.sum(axis=1 + axis)
+    active = [f for f in factors if f is not None]
+    if not active:
+        return np.repeat(amplitudes[:, None], nd, axis=1)
+    if len(active) == 1:
+        return amplitudes @ active[0]
+    partial = amplitudes @ active[1]  # [ns, n1, nd]
+    return np.einsum("sid,id->sd", partial, active[0])
+
+
+def _grid_key(sheet):
+    return (sheet.axes, sheet.normal_axis) + tuple(c.tobytes() for c in sheet.coordinates)
+
+
+def sheet_sums(sheets, directions, wavenumbers):
+    """Σ amplitude · e^{−ik r̂·r'} per sheet: complex [ns, nf, nd] (``sheets`` share one grid).
+
+    ``directions`` [nd, 3] unit vectors, ``wavenumbers`` [nf] (rad per Meep unit).
     """
     directions = np.asarray(directions, dtype=float)
-    out = np.empty((len(wavenumbers), directions.shape[0]), dtype=complex)
+    first = sheets[0]
+    out = np.empty((len(sheets), len(wavenumbers), directions.shape[0]), dtype=complex)
     for f, k in enumerate(wavenumbers):
-        normal_phase = np.exp(-1j * k * directions[:, sheet.normal_axis] * sheet.normal_position)
-        first = np.exp(-1j * k * np.outer(sheet.coordinates[0], directions[:, sheet.axes[0]]))
-        amplitude = sheet.amplitude[f]
-        if len(sheet.axes) == 2:
-            second = np.exp(-1j * k * np.outer(sheet.coordinates[1], directions[:, sheet.axes[1]]))
-            partial = amplitude @ second  # [n1, nd]
-            out[f] = normal_phase * np.einsum("id,id->d", first, partial)
-        else:
-            out[f] = normal_phase * (amplitude @ first)
+        amplitudes = np.stack([sheet.amplitude[f] for sheet in sheets])
+        in_plane = _in_plane_sums(amplitudes, first.coordinates, first.axes, directions, k)
+        for i, sheet in enumerate(sheets):
+            normal_phase = np.exp(-1j * k * directions[:, sheet.normal_axis] * sheet.normal_position)
+            out[i, f] = normal_phase * in_plane[i]
     return out
 
 
+def sheet_sum(sheet, directions, wavenumbers):
+    """Σ amplitude · e^{−ik r̂·r'} over one sheet: complex [nf, nd]."""
+    return sheet_sums([sheet], directions, wavenumbers)[0]
+
+
 def radiation_vectors(sheets, directions, wavenumbers):
-    """N(r̂) and L(r̂) (Balanis §12.3, e^{−iωt}): complex [nf, nd, 3] each, in blocks of directions."""
+    """N(r̂) and L(r̂) (Balanis §12.3, e^{−iωt}): complex [nf, nd, 3] each, in blocks of directions.
+
+    Sheets on the same grid (the components sharing Yee offsets on a face, and their two layers)
+    are summed together, so their phase factors are computed once.
+    """
     directions = np.asarray(directions, dtype=float)
     nf, nd = len(wavenumbers), directions.shape[0]
     n_vec = np.zeros((nf, nd, 3), dtype=complex)
     l_vec = np.zeros_like(n_vec)
+    groups = {}
+    for sheet in sheets:
+        groups.setdefault(_grid_key(sheet), []).append(sheet)
     for start in range(0, nd, _DIRECTION_BLOCK):
         block = slice(start, min(nd, start + _DIRECTION_BLOCK))
-        for sheet in sheets:
-            s = sheet_sum(sheet, directions[block], wavenumbers)
-            target = l_vec if sheet.magnetic else n_vec
-            target[:, block, :] += s[:, :, None] * sheet.direction[None, None, :]
+        for group in groups.values():
+            sums = sheet_sums(group, directions[block], wavenumbers)
+            for sheet, s in zip(group, sums):
+                target = l_vec if sheet.magnetic else n_vec
+                target[:, block, :] += s[:, :, None] * sheet.direction[None, None, :]
     return n_vec, l_vec
 
 

@@ -113,15 +113,20 @@ def test_separable_sum_equals_the_direct_sum():
     amplitude = rng.normal(size=(2, 7, 5)) + 1j * rng.normal(size=(2, 7, 5))
     sheet = ff.CurrentSheet(axes=(0, 1), coordinates=(x, y), normal_axis=2, normal_position=0.37,
                             direction=np.array([0.0, 1.0, 0.0]), magnetic=False, amplitude=amplitude)
-    directions = rng.normal(size=(9, 3))
-    directions /= np.linalg.norm(directions, axis=1, keepdims=True)
-    k = np.array([5.0, 6.5])
-    got = ff.sheet_sum(sheet, directions, k)
     xx, yy = np.meshgrid(x, y, indexing="ij")
     points = np.stack([xx.ravel(), yy.ravel(), np.full(xx.size, 0.37)], axis=1)
-    for f in range(2):
-        direct = np.exp(-1j * k[f] * directions @ points.T) @ amplitude[f].ravel()
-        assert np.allclose(got[f], direct, rtol=1e-12)
+    k = np.array([5.0, 6.5])
+    th = np.radians(np.arange(-180.0, 181.0, 20.0))
+    general = rng.normal(size=(9, 3))
+    # general directions, the two principal-plane cuts (r̂_y = 0, r̂_x = 0) and the axis
+    for directions in (general / np.linalg.norm(general, axis=1, keepdims=True),
+                       np.stack([np.sin(th), 0 * th, np.cos(th)], axis=1),
+                       np.stack([0 * th, np.sin(th), np.cos(th)], axis=1),
+                       np.array([[0.0, 0.0, 1.0], [0.0, 0.0, -1.0]])):
+        got = ff.sheet_sum(sheet, directions, k)
+        for f in range(2):
+            direct = np.exp(-1j * k[f] * directions @ points.T) @ amplitude[f].ravel()
+            assert np.allclose(got[f], direct, rtol=1e-12, atol=1e-12)
 
 
 # --- against Meep's get_farfield ------------------------------------------------------------------
