@@ -13,7 +13,9 @@ Every run is a fresh process (``--worker``), so peak memory (ru_maxrss) is per r
 can start it. ``--small`` uses a coarser grid for a quick look. The horn is an invented
 X-band H-plane sectoral horn on a WR-90 guide (a made-up test case, not a product).
 
-Usage: ``.venv/bin/python bench/bench_sim.py [--small] [--only PART ...]``
+``--farfield-method meep`` runs the old point-by-point get_farfield post-processing (for
+before/after figures). Usage:
+``.venv/bin/python bench/bench_sim.py [--small] [--only PART ...] [--farfield-method fast|meep]``
 """
 
 import argparse
@@ -48,8 +50,9 @@ def worker(spec):
     from hornproof.sim.settings import FdtdSettings
 
     horn = HornGeometry(**HORN)
+    extra = {"farfield_method": spec["farfield_method"]} if spec.get("farfield_method") else {}
     settings = FdtdSettings(dims=spec["dims"], use_symmetry=spec["symmetry"],
-                            decay_by=spec.get("decay_by", 1e-3), pattern_step_deg=5.0)
+                            decay_by=spec.get("decay_by", 1e-3), pattern_step_deg=5.0, **extra)
     n = spec["frequencies"]
     span = spec.get("relative_span", 0.05)  # default band 9.5-10.5 GHz
     frequencies = (np.linspace(10e9 * (1 - span), 10e9 * (1 + span), n) if n > 1
@@ -87,6 +90,8 @@ def worker(spec):
         "simulate_seconds": simulate_seconds,
         "seconds_total": run.get("seconds_total"),
         "seconds_stepping": run.get("seconds_stepping"),
+        "seconds_post_processing": run.get("seconds_post_processing"),
+        "farfield_method": run.get("farfield_method"),
         "timesteps": run.get("timesteps"),
         "meep_time": run.get("meep_time"),
         "grid_cells": run.get("grid_cells"),
@@ -179,6 +184,8 @@ def verdict(part, ratio):
 def base_spec(args, **changes):
     spec = {"dims": 3, "symmetry": True, "frequencies": 1,
             "cells_per_wavelength": 10.0 if args.small else 16.0}
+    if args.farfield_method:
+        spec["farfield_method"] = args.farfield_method
     spec.update(changes)
     return spec
 
@@ -296,6 +303,8 @@ def main(argv=None):
     parser.add_argument("--only", action="append", choices=PARTS, help="run only this part")
     parser.add_argument("--small", action="store_true", help="coarser grid, quick run")
     parser.add_argument("--json", action="store_true", help="print all ratios as JSON at the end")
+    parser.add_argument("--farfield-method", choices=("fast", "meep"),
+                        help="far-field transform of simulate (default: FdtdSettings' default)")
     parser.add_argument("--worker", help=argparse.SUPPRESS)
     args = parser.parse_args(argv)
     if args.worker:
