@@ -11,6 +11,13 @@ footprint is therefore cut out of the back face, which is built from four strips
 segments (2D) around that footprint. Everything the guide carries inside stays uncounted; the
 currents on the outside of the guide wall behind the box are neglected (small when the
 back radiation is weak).
+
+Two far-field transforms of the same surface (``FdtdSettings.farfield_method``): "meep", Meep's
+near2far object and ``get_farfield`` point by point (``far_fields``; the full finite-distance
+Green's function per surface sample per direction, in C++), and "fast", the far-zone (r → ∞)
+radiation-vector sums in numpy over the same Yee-grid samples with the same quadrature weights
+(``add_current_monitors``, ``current_sheets``, ``fast_far_fields``; see the section below).
+Both return E and H at ``sim.model.FAR_FIELD_DISTANCE`` so the rest is shared.
 """
 
 from dataclasses import dataclass
@@ -200,13 +207,12 @@ _MARGINS_CELLS = (0.25, 0.15, 0.35, 0.1, 0.4, 0.2, 0.3)
 _DIRECTION_BLOCK = 2048
 
 
-def tangential_axes(normal_axis, dims):
+def tangential_axes(normal_axis):
     """The two axes tangential to a face normal to ``normal_axis`` (0 x, 1 y, 2 z) in cyclic order.
 
     In 2D Meep's out-of-plane axis is z (index 2); a face normal to x or y has tangents (y, z) or
     (z, x), the same cyclic order as in 3D.
     """
-    del dims  # same rule in 2D (z is the out-of-plane axis)
     return ((1, 2), (2, 0), (0, 1))[normal_axis]
 
 
@@ -317,7 +323,7 @@ def face_current_sheets(field_arrays, centre, size, sign, dims, step):
     normal = np.zeros(3)
     normal[normal_axis] = sign
     sheets = []
-    for axis in tangential_axes(normal_axis, dims):
+    for axis in tangential_axes(normal_axis):
         for kind in ("e", "h"):
             name = kind + "xyz"[axis]
             data = field_arrays.get(name)
@@ -489,7 +495,8 @@ def add_current_monitors(sim, surface, meep_frequencies):
     """DFT monitors (Yee grid) of the tangential fields on every face piece of ``surface``.
 
     Each monitor is a slab a fraction of a cell thick around its face (and as much wider), so
-    Meep keeps every Yee sample whose interpolation or quadrature weight on the face is non-zero. Returns a list of (centre, size, weight, dft_fields).
+    Meep keeps every Yee sample whose interpolation or quadrature weight on the face is non-zero.
+    Returns a list of (centre, size, weight, dft_fields, component names).
     """
     import meep as mp
 
@@ -498,7 +505,7 @@ def add_current_monitors(sim, surface, meep_frequencies):
     monitors = []
     for centre, size, weight in surface.regions():
         normal_axis = next(a for a in range(surface.dims) if size[a] == 0.0)
-        names = [kind + "xyz"[axis] for axis in tangential_axes(normal_axis, surface.dims) for kind in "eh"]
+        names = [kind + "xyz"[axis] for axis in tangential_axes(normal_axis) for kind in "eh"]
         bounds = [slab_bounds(centre, size, a, step) for a in range(surface.dims)]
         dft = sim.add_dft_fields([_meep_component(n) for n in names], freqs,
                                  center=mp.Vector3(*[0.5 * (lo + hi) for lo, hi in bounds]),
