@@ -186,9 +186,10 @@ def directivity(intensity, radiated_power, dims=3):
 #
 # with G = i k e^{ikr} / (4π r) in 3D and G = −(k/4) H0⁽¹⁾(kr) ≈ −(k/4) √(2/(πkr)) e^{i(kr − π/4)}
 # in 2D (fields per unit length, ∝ 1/√r). References: C. A. Balanis, *Antenna Theory*, 3rd ed.,
-# §12.3 (radiation vectors; E_θ = −jkη e^{−jkr}/(4πr) (N_θ + L_φ/η) in the e^{+jωt} convention) and
-# *Advanced Engineering Electromagnetics*, §6.8 (the 2D far-zone Hankel asymptote). These are the
-# far-zone limits of the point-source Green's functions Meep's own near2far sums.
+# ch. 12, "radiation equations" (radiation vectors; E_θ = −jk e^{−jkr}/(4πr) (L_φ + η N_θ) in the
+# e^{+jωt} convention; section from memory), and M. Abramowitz & I. A. Stegun, *Handbook of
+# Mathematical Functions*, 9.2.3 (H0⁽¹⁾(x) → √(2/(πx)) e^{i(x − π/4)}). These are the far-zone
+# limits of the point-source Green's functions Meep's own near2far sums (its green3d / green2d).
 #
 # Discretisation (kept identical to Meep's near2far so the two agree): every tangential field
 # component is sampled at its own Yee-grid points (DFT monitors with ``yee_grid=True``); along the
@@ -434,7 +435,7 @@ def sheet_sum(sheet, directions, wavenumbers):
 
 
 def radiation_vectors(sheets, directions, wavenumbers):
-    """N(r̂) and L(r̂) (Balanis §12.3, e^{−iωt}): complex [nf, nd, 3] each, in blocks of directions.
+    """N(r̂) and L(r̂) (Balanis ch. 12, in Meep's e^{−iωt}): complex [nf, nd, 3] each, in blocks of directions.
 
     Sheets on the same grid (the components sharing Yee offsets on a face, and their two layers)
     are summed together, so their phase factors are computed once.
@@ -461,8 +462,8 @@ def far_zone_green(wavenumbers, distance, dims):
 
     3D: the far limit of the electric-dipole field E = iωμ e^{ikr}/(4πr) p⊥ for a current moment p
     (e^{−iωt}); 2D: the large-argument Hankel asymptote H0⁽¹⁾(x) ≈ √(2/(πx)) e^{i(x − π/4)} in the
-    line-source field E_z = −(ωμ/4) H0⁽¹⁾(kr) I (Balanis, *Advanced Engineering Electromagnetics*,
-    §11.3 and appendix IV). Meep units: μ = ε = 1, ω = k.
+    line-source field E_z = −(ωμ/4) H0⁽¹⁾(kr) I (the 2D Green's function Meep's near2far uses;
+    Abramowitz & Stegun 9.2.3 for the asymptote). Meep units: μ = ε = 1, ω = k.
     """
     k = np.asarray(wavenumbers, dtype=float)
     kr = k * distance
@@ -475,7 +476,7 @@ def far_zone_fields(n_vec, l_vec, directions, wavenumbers, distance, dims):
     """E and H at ``distance`` along ``directions`` from the radiation vectors: [nf, nd, 3] each.
 
     E = G (N⊥ − r̂ × L), H = r̂ × E (plane wave, η = 1). In θ/φ components this is
-    E_θ = G (N_θ + L_φ), E_φ = G (N_φ − L_θ) (Balanis §12.3 with η = 1).
+    E_θ = G (N_θ + L_φ), E_φ = G (N_φ − L_θ) (Balanis ch. 12 with η = 1, e^{−iωt}).
     """
     r_hat = np.asarray(directions, dtype=float)[None, :, :]
     n_perp = n_vec - np.sum(n_vec * r_hat, axis=2, keepdims=True) * r_hat
