@@ -24,16 +24,17 @@ impedance, cutoff) and the cos(πx/a) taper of the H-plane. Neither gives a 3D d
 """
 
 import time
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, fields
 
 import numpy as np
 
+from ..analytic.model_result import ModelResult
+from ..analytic.pattern_metrics import cut_metrics
 from ..errors import RunError
 from ..units import db10, db20
 from . import farfield as ff
 from . import feed as fd
 from . import model as md
-from .cut_metrics import cut_figures
 
 #: bytes of memory per grid cell (fields, PML auxiliaries, material) — a rough planning figure
 BYTES_PER_CELL = 120.0
@@ -42,52 +43,26 @@ MEMORY_LIMIT_BYTES = 16 * 2**30
 
 
 @dataclass
-class SimResult:
-    """One FDTD run over the band, in the ModelResult shape (name ``"fdtd"``) plus run metadata.
+class SimResult(ModelResult):
+    """One FDTD run over the band: a ``ModelResult`` (name ``"fdtd"``) plus run metadata.
 
     Arrays [nf] unless stated; cuts [nf, nθ] in dBi (dB of D₂ for dims = 2), NaN where a 2D
     model has no such plane. ``run`` holds the metadata (see ``simulate``). ``full_pattern``
     is None or a dict with ``theta_deg``, ``phi_deg`` and ``directivity_dbi`` [nf, nθ, nφ].
     """
 
-    name: str
-    dims: int
-    frequencies: np.ndarray
-    theta_deg: np.ndarray
-    h_plane_dbi: np.ndarray
-    e_plane_dbi: np.ndarray
-    directivity_dbi: np.ndarray
-    hpbw_h_deg: np.ndarray
-    hpbw_e_deg: np.ndarray
-    first_null_h_deg: np.ndarray
-    first_null_e_deg: np.ndarray
-    sll_h_db: np.ndarray
-    sll_e_db: np.ndarray
-    extra: dict = field(default_factory=dict)
     run: dict = field(default_factory=dict)
     full_pattern: dict = None
 
-    MODEL_FIELDS = ("name", "dims", "frequencies", "theta_deg", "h_plane_dbi", "e_plane_dbi",
-                    "directivity_dbi", "hpbw_h_deg", "hpbw_e_deg", "first_null_h_deg",
-                    "first_null_e_deg", "sll_h_db", "sll_e_db", "extra")
-
     def to_model_result(self):
-        """The same figures as ``hornproof.analytic.model_result.ModelResult`` (when it exists)."""
-        from ..analytic.model_result import ModelResult
-
-        return ModelResult(**{k: getattr(self, k) for k in self.MODEL_FIELDS}, attributes=dict(self.run))
+        """The plain ``ModelResult`` part, with the run metadata as its attributes."""
+        names = [f.name for f in fields(ModelResult) if f.name != "attributes"]
+        return ModelResult(**{k: getattr(self, k) for k in names}, attributes=dict(self.run))
 
 
 def _cut_metrics(theta_deg, cuts_db):
-    """HPBW, first null, sidelobe level per frequency (``analytic.pattern_metrics``; the local
-    ``cut_metrics`` fallback only if that module is missing)."""
-    cuts_db = np.asarray(cuts_db, dtype=float)
-    try:
-        from ..analytic.pattern_metrics import cut_metrics
-    except ImportError:
-        rows = [cut_figures(theta_deg, cut) for cut in cuts_db]
-        return tuple(np.array(col, dtype=float) for col in zip(*rows))
-    m = cut_metrics(theta_deg, cuts_db)
+    """HPBW, first null, sidelobe level per frequency (``analytic.pattern_metrics``)."""
+    m = cut_metrics(theta_deg, np.asarray(cuts_db, dtype=float))
     return (np.asarray(m["hpbw_deg"], dtype=float), np.asarray(m["first_null_deg"], dtype=float),
             np.asarray(m["sll_db"], dtype=float))
 
