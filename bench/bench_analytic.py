@@ -4,7 +4,7 @@ Not a timed test: run it by hand or in CI and read the ratios.
 
     .venv/bin/python bench/bench_analytic.py
 
-Targets (hornproof analytic brief):
+Targets (hornproof's own performance goals, a project decision):
 * closed-form boresight directivity, vectorised: ≥ 1e6 evaluations/s
 * exact-phase principal-plane cut (H and E planes), 361 angles: < 50 ms
 * full (θ, φ) pattern on a 2° grid (θ 0…180°, φ 0…358°): < 1 s

@@ -9,7 +9,7 @@ from ..units import FREE_SPACE_IMPEDANCE, SPEED_OF_LIGHT
 
 #: EIA RS-261 / IEC 60153-2 rectangular waveguide inner sizes, (a, b) in metres.
 #: The defining unit is the inch; values here are the inch sizes times 25.4 mm
-#: (REFERENCES.md lists the same figures, from memory).
+#: (figures from memory of the EIA RS-261 / IEC 60153-2 inch sizes).
 EIA_WAVEGUIDES = {
     "WR-284": (72.136e-3, 34.036e-3),
     "WR-229": (58.166e-3, 29.083e-3),

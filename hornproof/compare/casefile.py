@@ -9,8 +9,8 @@ Every problem with a case file raises :class:`hornproof.errors.InputError` with 
 that is no longer single-mode, a grid too coarse for the narrowest opening, a band edge close to
 cutoff) become one-line strings in ``Case.warnings``.
 
-The keys are listed in the tables ``*_KEYS`` below and documented in ``cases/README.md`` and
-``/work/shared/ARCHITECTURE.md`` ("Case file (format 1)").
+The keys are listed in the tables ``*_KEYS`` below and documented in ``README.md`` ("Case
+files") and ``cases/README.md`` ("Writing your own"). The format is hornproof's own.
 """
 
 import difflib
@@ -61,7 +61,8 @@ TIER_KEYS = ("dims", "cells_per_wavelength", "points")
 #: Smallest grid density accepted, cells per wavelength at f_max.
 MIN_CELLS_PER_WAVELENGTH = 4.0
 #: Fewer cells than this across the narrowest opening of the model draws a warning
-#: (common practice for FDTD: a few cells across the smallest feature; see ARCHITECTURE.md).
+#: (common practice for FDTD: a few cells across the smallest feature; the threshold of 4 is
+#: hornproof's own choice).
 MIN_CELLS_ACROSS_OPENING = 4.0
 #: Default ladder when ``fdtd.cells_per_wavelength`` is absent.
 DEFAULT_CELLS_PER_WAVELENGTH = (12.0,)

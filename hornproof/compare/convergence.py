@@ -50,7 +50,8 @@ the fine grid at the fastest credible order, ``3 |Îµ32| / (r21^pmax (r32^pmax âˆ
 
 The default ``formal_order`` is 1: Meep's Yee scheme is second order in a smooth medium, but
 PEC walls get no subpixel smoothing, so a flared (staircased) horn converges at about first
-order (seen in this project; see ARCHITECTURE.md). Pass 2 for smooth problems such as a
+order (observed in earlier development runs of this project; DEVELOPERS.md, "Modelling notes
+that bit us"; the default is hornproof's own decision). Pass 2 for smooth problems such as a
 free-space dipole.
 
 With more than three grids the three finest are used for the estimate (flag

@@ -9,7 +9,8 @@ and solver settings, then the figures, then the RF-exposure caution
 Inputs
 ======
 
-``result.json`` (schema ``"hornproof.result/1"``, ARCHITECTURE.md). Keys read here:
+``result.json`` (schema ``"hornproof.result/1"``; README.md "What you get", DEVELOPERS.md
+"Conventions"). Keys read here:
 ``schema``, ``case``, ``title``, ``case_sha256``, ``frequencies_ghz``, ``geometry`` (flat dict;
 the key suffix gives the unit: ``_mm``, ``_deg``, ``_wl``, ``_ghz``), ``models``, ``solver``
 (flat dict), ``warnings`` (list of str), ``hornproof_version`` and the block below. Any other

@@ -3,12 +3,13 @@
 Outside values used here, with their sources:
 
 * EIA RS-261 / IEC 60153-2 waveguide sizes are defined in inches (WR-90: 0.900 x 0.400 in,
-  WR-62: 0.622 x 0.311 in; from memory, listed in shared REFERENCES.md); 1 in = 25.4 mm exactly.
+  WR-62: 0.622 x 0.311 in; from memory); 1 in = 25.4 mm exactly.
 * TE10 cutoff f_c = c / (2 a) and TE20 cutoff c / a (any waveguide text; exact), with
   c = 299 792 458 m/s (SI, exact). For WR-90 f_c = 6.557 GHz is the handbook figure (from memory).
 * Exact-path versus quadratic phase error: they agree below S = 0.2 wavelength and differ by
   more than 0.7 dB of gain at S = 1 wavelength for a 5-wavelength aperture (IEEE AP-S 1992,
-  doi:10.1109/APS.1992.221722, abstract; in shared REFERENCES.md). Used to judge the shipped
+  "Pyramidal horn gain calculation with improved accuracy", doi:10.1109/APS.1992.221722,
+  abstract). Used to judge the shipped
   "short-wide-flare" and "gentle-long" cases.
 """
 

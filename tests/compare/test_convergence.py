@@ -132,11 +132,12 @@ def test_oscillatory_and_divergent_are_flagged_with_spread_bound():
 
 
 def test_hertzian_dipole_two_grid_richardson():
-    # ARCHITECTURE.md (seen in this project): point dipole directivity 1.80 / 1.57 / 1.53 at
-    # 10 / 20 / 30 cells per λ; Richardson from the last two with p = 2 gives 1.499.
+    # Observed in an earlier development run of this project (a different model set-up; not a
+    # reference value): point dipole directivity 1.80 / 1.57 / 1.53 at 10 / 20 / 30 cells per λ;
+    # Richardson from the last two with p = 2 gives 1.499.
     # By hand: r = 30/20 = 1.5, r^2 = 2.25, (2.25·1.53 − 1.57)/1.25 = 1.498 (the quoted 1.499
     # comes from unrounded values; the inputs are rounded to 0.01, so tolerance 0.002).
-    # The exact answer is 1.5 (Hertzian dipole, any antenna text).
+    # The exact answer is 1.5 (Hertzian dipole; C. A. Balanis, Antenna Theory, 3rd ed., §4.2).
     est = cv.grid_convergence([1.57, 1.53], cells_per_wavelength=[20, 30], formal_order=2.0)[0]
     assert est.status == "two-grid" and "assumed-order" in est.flags
     assert est.extrapolated_value == pytest.approx(1.499, abs=0.002)
@@ -144,7 +145,8 @@ def test_hertzian_dipole_two_grid_richardson():
     assert est.uncertainty == pytest.approx(3.0 * 0.04 / 1.25, rel=1e-9)
     assert abs(1.53 - 1.5) <= est.uncertainty  # the GCI covers the true error
     # All three grids: ε21 = −0.04, ε32 = −0.23, r21 = 1.5, r32 = 2 -> monotonic with an order
-    # near the expected second order (ARCHITECTURE.md: "converges at second order").
+    # near the expected second order (the Yee scheme is second order in a smooth medium with no
+    # staircased walls; common practice, from memory).
     three = cv.grid_convergence([1.80, 1.57, 1.53], cells_per_wavelength=[10, 20, 30],
                                 formal_order=2.0)[0]
     assert three.status == "monotonic"
@@ -153,9 +155,10 @@ def test_hertzian_dipole_two_grid_richardson():
 
 
 def test_non_monotonic_h_plane_ladder_is_flagged():
-    # ARCHITECTURE.md (seen in this project): a narrow H-plane horn's ladder went up, then
-    # down, over 20 / 28 / 40 cells per λ with a spread of about 0.3 dB. The values below are
-    # invented to match that description (up 0.3 dB, then down 0.2 dB).
+    # Observed in an earlier development run of this project (a different model set-up; not a
+    # reference value): a narrow H-plane horn's ladder went up, then down, over 20 / 28 / 40
+    # cells per λ with a spread of about 0.3 dB. The values below are invented to match that
+    # description (up 0.3 dB, then down 0.2 dB).
     est = cv.grid_convergence([11.8, 12.1, 11.9], cells_per_wavelength=[20, 28, 40])[0]
     assert est.status == "oscillatory"
     assert not est.confident and "spread-bound" in est.flags

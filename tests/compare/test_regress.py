@@ -2,7 +2,8 @@
 
 The runs use a fake runner (synthetic hornproof.result/1 summaries computed from the case, with
 shifts and failures set through environment variables) and the real case-file loader. The
-classification rule under test is the project's (STYLE.md, after asv's habit): a change is a
+classification rule under test is hornproof's own decision (after the habit of the asv benchmark
+tool): a change is a
 regression only beyond the case's tolerance *and* beyond the combined numerical uncertainty
 √(u_base² + u_new²); an edited case is "not comparable"; a failed run counts as a regression.
 """

@@ -2,7 +2,7 @@
 
 What is checked: the report is one self-contained file (no external http(s) references, figures
 embedded), the verdict table comes before the figures, the RF-exposure caution is there
-(IEEE C95.1-2019 and ICNIRP (2020), the sources named in REFERENCES.md), text from the JSON is
+(IEEE C95.1-2019 and ICNIRP (2020), Health Physics 118 (2020) 483–524), text from the JSON is
 escaped, and an unknown schema is refused with a hint.
 """
 

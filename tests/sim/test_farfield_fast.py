@@ -17,7 +17,7 @@ from hornproof.analytic.geometry import HornGeometry
 from hornproof.sim import farfield as ff
 from hornproof.sim.settings import FdtdSettings
 
-WR90 = (22.86e-3, 10.16e-3)  # EIA WR-90 inner size (REFERENCES.md, from memory)
+WR90 = (22.86e-3, 10.16e-3)  # EIA RS-261 / IEC 60153-2 WR-90, 0.900 x 0.400 in (from memory)
 # small invented test horns on WR-90 (not products): 1.5 λ x 1.2 λ aperture, 1.3 λ long at 10 GHz
 SMALL = HornGeometry("pyramidal", *WR90, 45e-3, 35e-3, 40e-3, 1e-3)
 SMALL_H = HornGeometry("h-sectoral", *WR90, 45e-3, WR90[1], 40e-3, 1e-3)

@@ -14,7 +14,7 @@ import pytest
 from hornproof.sim.feed import fit_travelling_waves, vswr
 from hornproof.sim.settings import FdtdSettings
 
-WR90 = (22.86e-3, 10.16e-3)  # EIA WR-90 inner size (REFERENCES.md, from memory)
+WR90 = (22.86e-3, 10.16e-3)  # EIA RS-261 / IEC 60153-2 WR-90, 0.900 x 0.400 in (from memory)
 BAND = np.array([8.5e9, 10.0e9, 11.5e9])
 
 

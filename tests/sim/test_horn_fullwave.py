@@ -2,7 +2,8 @@
 
 * Power balance on a lossless (PEC) model: radiated = incident − reflected (fact of the trade).
 * A mirror-symmetric horn fed in TE10 has patterns symmetric about boresight, and a run using
-  the mirror planes equals the full run (symmetry; REFERENCES.md "Full-wave checks").
+  the mirror planes equals the full run (mirror symmetry of Maxwell's equations; fact of the
+  trade).
 * Aperture theory for a long, gently flared horn: D = (4π/λ²) · (8/π²) A B · L_H · L_E with the
   TE10 cosine taper across A, uniform field across B and the quadratic aperture phase
   exp(−j k x² / (2 R)) over each plane (C. A. Balanis, *Antenna Theory*, 3rd ed., ch. 13,
@@ -20,7 +21,7 @@ from hornproof.sim.farfield import ClosedSurface
 from hornproof.sim.settings import FdtdSettings
 from hornproof.units import SPEED_OF_LIGHT
 
-WR90 = (22.86e-3, 10.16e-3)  # EIA WR-90 (REFERENCES.md, from memory)
+WR90 = (22.86e-3, 10.16e-3)  # EIA RS-261 / IEC 60153-2 WR-90, 0.900 x 0.400 in (from memory)
 SMALL = HornGeometry("pyramidal", *WR90, 45e-3, 35e-3, 40e-3, 1e-3)
 # 3.2 λ x 2.6 λ aperture, 7 λ long at 10 GHz: peak phase errors S = 0.14 λ, T = 0.11 λ
 GENTLE = HornGeometry("pyramidal", *WR90, 96e-3, 78e-3, 210e-3, 1e-3)
@@ -52,7 +53,8 @@ def line_source_directivity(width, apex, frequency, taper):
 
 
 def test_aperture_model_without_phase_error_is_the_textbook_value():
-    # no phase error: D = (4π/λ²)(8/π²)AB exactly (aperture efficiency 8/π², REFERENCES.md)
+    # no phase error: D = (4π/λ²)(8/π²)AB exactly (aperture efficiency 8/π² of the TE10 cosine
+    # taper; Balanis, Antenna Theory, 3rd ed., ch. 13, from memory of the equation form)
     flat = HornGeometry("pyramidal", *WR90, 96e-3, 78e-3, 1e6, 1e-3)
     wl = SPEED_OF_LIGHT / 10e9
     assert aperture_directivity(flat, 10e9) == pytest.approx(4 * np.pi / wl**2 * 8 / np.pi**2 * 96e-3 * 78e-3, rel=1e-4)
