@@ -60,6 +60,9 @@ TIER_KEYS = ("dims", "cells_per_wavelength", "points")
 
 #: Smallest grid density accepted, cells per wavelength at f_max.
 MIN_CELLS_PER_WAVELENGTH = 4.0
+#: a finer grid is a typing slip, not a model (hornproof's limit; the resource estimate
+#: refuses far smaller ones on a 24 GiB machine)
+MAX_CELLS_PER_WAVELENGTH = 400.0
 #: Fewer cells than this across the narrowest opening of the model draws a warning
 #: (common practice for FDTD: a few cells across the smallest feature; the threshold of 4 is
 #: hornproof's own choice).
@@ -468,6 +471,9 @@ def _cells_ladder(value, dotted):
         if cell < MIN_CELLS_PER_WAVELENGTH:
             raise _Problem(dotted, f"{cell:g} cells per wavelength is too coarse; "
                                    f"use at least {MIN_CELLS_PER_WAVELENGTH:g}")
+        if cell > MAX_CELLS_PER_WAVELENGTH:
+            raise _Problem(dotted, f"{cell:g} cells per wavelength is beyond any model this machine "
+                                   f"could hold; use at most {MAX_CELLS_PER_WAVELENGTH:g}")
     if len(set(cells)) != len(cells):
         raise _Problem(dotted, f"repeated value in the ladder {cells}")
     return tuple(sorted(cells))

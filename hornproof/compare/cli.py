@@ -8,6 +8,7 @@ Anything else is a bug and keeps its traceback.
 
 import argparse
 import contextlib
+import signal
 import sys
 
 from .. import __version__
@@ -28,9 +29,14 @@ def _cells_list(text):
         values = [float(v) for v in text.split(",") if v.strip()]
     except ValueError:
         raise argparse.ArgumentTypeError(f"expected numbers separated by commas, got {text!r}")
-    if not values or any(v < 4 for v in values):
-        raise argparse.ArgumentTypeError("cells per wavelength must be numbers >= 4")
+    if not values or any(not 4 <= v <= MAX_CELLS_PER_WAVELENGTH for v in values):
+        raise argparse.ArgumentTypeError(f"cells per wavelength must be numbers from 4 to {MAX_CELLS_PER_WAVELENGTH:g}")
     return values
+
+
+#: a grid beyond this is a typing slip, not a model (a 3D horn of a few wavelengths at 400
+#: cells per wavelength would need terabytes); hornproof's limit
+MAX_CELLS_PER_WAVELENGTH = 400.0
 
 
 def build_parser():
@@ -40,6 +46,15 @@ def build_parser():
     parser.add_argument("--version", action="version", version=f"hornproof {__version__}")
     parser.add_argument("--debug", action="store_true", help="show tracebacks for every error")
     sub = parser.add_subparsers(dest="command", metavar="COMMAND")
+    debug = argparse.ArgumentParser(add_help=False)
+    debug.add_argument("--debug", action="store_true", default=argparse.SUPPRESS,
+                       help="show tracebacks for every error")
+    _add = sub.add_parser
+
+    def add_parser(name, **kwargs):
+        return _add(name, parents=[debug], **kwargs)
+
+    sub.add_parser = add_parser
 
     p = sub.add_parser("predict", help="closed-form and exact-phase models only (instant)")
     p.add_argument("case", help="case file (.toml)")
@@ -50,8 +65,8 @@ def build_parser():
     p = sub.add_parser("simulate", help="FDTD model only (Meep); writes fields.h5, result.json, s11.s1p")
     p.add_argument("case")
     p.add_argument("--cells-per-wavelength", type=_cells_list, metavar="N",
-                   help="grid density at f_max (default: the finest of the case's ladder)")
-    p.add_argument("--out", metavar="DIR", help="output folder (default: results/<case>/<hash>)")
+                   help="grid density at f_max, one value (default: the finest of the case's ladder)")
+    p.add_argument("--out", metavar="DIR", help="output folder (default: results/<case>/<hash>/fdtd-<N>)")
     p.add_argument("--json", action="store_true")
     p.add_argument("--force", action="store_true", help="run even if the estimate exceeds free memory")
     p.add_argument("--image", action="store_true", help="also write model.png (two cuts through the axis)")
@@ -59,7 +74,7 @@ def build_parser():
     p = sub.add_parser("verify", help="the main job: models + FDTD ladder, compared, with verdict and report")
     p.add_argument("case")
     p.add_argument("--cells-per-wavelength", type=_cells_list, metavar="N1,N2,N3",
-                   help="convergence ladder, overrides the case (e.g. 16,20,24)")
+                   help="convergence ladder, overrides the case's own (e.g. 16,20,24)")
     p.add_argument("--out", metavar="DIR", help="output folder (default: results/<case>/<hash>)")
     p.add_argument("--json", action="store_true")
     p.add_argument("--force", action="store_true", help="run even if the estimate exceeds free memory")
@@ -68,8 +83,10 @@ def build_parser():
     p.add_argument("case", help="case file with a [sweep] table")
     p.add_argument("--out", metavar="DIR", help="output folder (default: results/<case>-sweep)")
     p.add_argument("--dims", type=int, choices=(2, 3), help="override the sweep's model dimension")
-    p.add_argument("--cells-per-wavelength", type=_cells_list, metavar="N[,N2]",
-                   help="one value, or two for a two-grid uncertainty at every point")
+    p.add_argument("--cells-per-wavelength", type=_cells_list, metavar="N[,N2,...]",
+                   help="grids run at every swept value (default: the sweep's cells per wavelength "
+                        "x 1, 1.4, 2; three or more give a grid-convergence uncertainty, two a "
+                        "conservative one, one none)")
     p.add_argument("--analytic-only", action="store_true", help="skip FDTD (both analytic models only)")
     p.add_argument("--json", action="store_true")
     p.add_argument("--force", action="store_true")
@@ -124,6 +141,7 @@ def main(argv=None):
     from . import summary
 
     summary.set_result_stream(sys.stdout)
+    previous_sigterm = signal.signal(signal.SIGTERM, _terminate)
     try:
         if args.command == "regress":  # regress keeps its own standard-output discipline
             return dispatch(args) or 0
@@ -139,9 +157,33 @@ def main(argv=None):
     except KeyboardInterrupt:
         print("hornproof: interrupted", file=sys.stderr)
         return 130
+    except _Terminated:
+        print("hornproof: terminated (SIGTERM); nothing half-written was kept", file=sys.stderr)
+        return 143
+    except MemoryError:
+        if args.debug:
+            raise
+        print("hornproof: error: out of memory; use fewer cells per wavelength", file=sys.stderr)
+        return 3
+    except OSError as error:
+        if args.debug:
+            raise
+        where = error.filename or ""
+        print(f"hornproof: error: {where}{': ' if where else ''}{error.strerror or error}", file=sys.stderr)
+        return 2 if error.filename else 3
     finally:
+        signal.signal(signal.SIGTERM, previous_sigterm)
         summary.set_result_stream(None)
         _quiet_meep_exit()
+
+
+class _Terminated(BaseException):
+    """SIGTERM, raised where the process is so that every ``except BaseException`` cleanup
+    (staging folders, temporary files) runs before the command exits."""
+
+
+def _terminate(signum, frame):
+    raise _Terminated()
 
 
 def _is_global_master():

@@ -18,6 +18,7 @@ import numpy as np
 
 from ..errors import InputError
 from ..units import GHZ, MM
+from .outdir import check_new_file
 from .summary import SAFETY_NOTE, jsonable, safety_lines, emit
 
 
@@ -163,15 +164,14 @@ def format_design(summary):
 def design_command(args):
     if not getattr(args, "design_kind", None):
         raise InputError("design: say what to design: 'hornproof design gain …' or 'hornproof design flare …'")
+    if args.write_case:
+        check_new_file(args.write_case, "--write-case")
     result = _design(args)
     summary = design_summary(result)
     if args.write_case:
         from ..atomic import write_text_atomic
 
-        path = Path(args.write_case)
-        if path.exists():
-            raise InputError(f"{path}: --write-case: the file exists; refusing to overwrite it")
-        write_text_atomic(path, case_text(summary, args.design_kind))
+        write_text_atomic(Path(args.write_case), case_text(summary, args.design_kind))
     if args.json:
         emit(json.dumps(summary, indent=1) + "\n")
     else:

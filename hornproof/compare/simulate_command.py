@@ -8,7 +8,9 @@ from pathlib import Path
 
 import numpy as np
 
+from ..errors import InputError
 from .casefile import load_case
+from .outdir import check_output_folder
 from .summary import base_summary, dumps, jsonable, safety_lines, emit
 
 
@@ -85,8 +87,12 @@ def format_fdtd(summary):
 
 def simulate_command(args):
     case = load_case(args.case)
+    if args.cells_per_wavelength and len(args.cells_per_wavelength) > 1:
+        raise InputError("--cells-per-wavelength: simulate runs one grid; give one value "
+                         "(verify runs a ladder)")
     cpw = float(args.cells_per_wavelength[0]) if args.cells_per_wavelength else float(max(case.fdtd.cells_per_wavelength))
     out_dir = Path(args.out) if args.out else Path("results") / case.name / case.sha256[:12] / f"fdtd-{cpw:g}"
+    out_dir = check_output_folder(out_dir, "--out" if args.out else "the default result folder")
     summary = simulate_case(case, cpw, out_dir, force=args.force, image=args.image)
     from .verify import _is_master
 

@@ -27,6 +27,7 @@ import numpy as np
 from .. import __version__
 from ..errors import InputError
 from .casefile import load_case
+from .outdir import check_output_folder
 from .summary import SAFETY_NOTE, dumps, jsonable, safety_lines, emit
 
 SCHEMA = "hornproof.sweep/1"
@@ -348,7 +349,9 @@ def format_sweep(document):
 
 def sweep_command(args):
     case = load_case(args.case)
-    out_dir = Path(args.out) if args.out else Path("results") / f"{case.name}-sweep"
+    out_dir = check_output_folder(Path(args.out) if args.out else Path("results") / f"{case.name}-sweep",
+                                  "--out" if args.out else "the default sweep folder",
+                                  markers=("sweep.json",), allow_partial=("points",))
     document = run_sweep(case, out_dir, dims=args.dims, ladder=args.cells_per_wavelength,
                          analytic_only=args.analytic_only, force=args.force)
     from .verify import _is_master

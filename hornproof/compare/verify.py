@@ -19,6 +19,7 @@ import numpy as np
 
 from ..errors import InputError, RunError
 from .casefile import load_case
+from .outdir import check_output_folder
 from .predict_command import predict_case
 from .summary import dumps, jsonable, safety_lines, emit
 
@@ -35,8 +36,9 @@ CHECK_METRICS = {
 LADDER_FIGURES = ("directivity_dbi", "directivity_2d_db", "gain_dbi", "realized_gain_dbi", "hpbw_h_deg",
                   "hpbw_e_deg", "first_null_h_deg", "first_null_e_deg", "sll_h_db", "sll_e_db", "s11_db")
 
-#: staircased PEC walls converge at about first order (ARCHITECTURE.md); used where the ladder
-#: cannot give an observed order (two grids) — hornproof's choice, stated in the report
+#: staircased PEC walls converge at about first order (observed in development runs of this
+#: project, DEVELOPERS.md "Modelling notes"); used where the ladder cannot give an observed
+#: order (two grids) — hornproof's choice, stated in the report
 FORMAL_ORDER = 1.0
 
 #: main-lobe window of the pattern error, dB below the FDTD peak
@@ -345,7 +347,7 @@ def solver_block(case, sim_results, ladder, seconds):
     })
 
 
-def verify_case(case, out_dir=None, *, force=False, progress=None, ladder=None):
+def verify_case(case, out_dir=None, *, force=False, ladder=None):
     """Run the main job on ``case`` and write its result folder.
 
     Parameters
@@ -409,9 +411,14 @@ def verify_case(case, out_dir=None, *, force=False, progress=None, ladder=None):
     summary["solver"] = solver_block(case, sim_results, ladder, time.monotonic() - t0)
     summary["warnings"] = list(summary.get("warnings", [])) + solver_warnings(sim_results, ladder)
     summary = jsonable(summary)
-    image = _model_image(case, max(ladder), Path(out_dir))
-    if _is_master():
-        _publish(out_dir, case, summary, models, sim_results, ladder, uncertainty, estimates, image)
+    image = None
+    try:
+        image = _model_image(case, max(ladder), Path(out_dir))
+        if _is_master():
+            _publish(out_dir, case, summary, models, sim_results, ladder, uncertainty, estimates, image)
+    finally:
+        if image is not None:
+            Path(image).unlink(missing_ok=True)  # moved into the folder when published
         summary["solver"]["seconds"] = time.monotonic() - t0
     return summary
 
@@ -491,7 +498,8 @@ def verify_command(args):
         case = case.with_cells(args.cells_per_wavelength)
     for warning in case.warnings:
         _say(f"hornproof: warning: {warning}")
-    out_dir = Path(args.out) if args.out else default_out_dir(case)
+    out_dir = check_output_folder(Path(args.out) if args.out else default_out_dir(case),
+                                  "--out" if args.out else "the default result folder")
     summary = verify_case(case, out_dir, force=args.force)
     if _is_master():
         if args.json:

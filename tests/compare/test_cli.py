@@ -1,7 +1,7 @@
 """The command line: exit codes, one-line errors, the predict JSON schema, --help per command.
 
-The contract checked here is ARCHITECTURE.md's (exit codes 0/1/2/3, one-line errors without a
-traceback, `hornproof.result/1` with every list aligned with `frequencies_ghz`).
+The contract checked here is hornproof's own (README.md "Commands": exit codes 0/1/2/3, one-line
+errors without a traceback, `hornproof.result/1` with every list aligned with `frequencies_ghz`).
 """
 
 import json
@@ -99,3 +99,81 @@ def test_design_writes_a_case_that_loads(tmp_path, capsys):
     # a second write refuses to overwrite (never lose data)
     assert main(["design", "gain", "--gain-dbi", "20", "--frequency-ghz", "10", "--waveguide", "WR-90",
                  "--write-case", str(target)]) == 2
+
+
+# --- output paths: checked before any run, never losing the user's files -----------------
+
+def test_out_folder_that_is_not_a_result_is_refused_and_kept(tmp_path):
+    work = tmp_path / "mywork"
+    work.mkdir()
+    (work / "notes.txt").write_text("thesis")
+    done = run_cli("verify", str(DEMO), "--out", str(work))
+    assert done.returncode == 2
+    assert "not a hornproof result folder" in done.stderr and "--out" in done.stderr
+    assert (work / "notes.txt").read_text() == "thesis"
+    assert sorted(p.name for p in work.iterdir()) == ["notes.txt"]
+
+
+@pytest.mark.parametrize("command", [["simulate", str(DEMO)], ["verify", str(DEMO)],
+                                     ["sweep", str(ROOT / "cases" / "sweep-h-flare.toml"), "--analytic-only"]])
+def test_out_that_is_a_file_is_refused(tmp_path, command):
+    target = tmp_path / "afile"
+    target.write_text("keep me")
+    done = run_cli(*command, "--out", str(target))
+    assert done.returncode == 2 and "not a folder" in done.stderr
+    assert target.read_text() == "keep me"
+
+
+def test_write_case_into_a_missing_folder_is_one_line(tmp_path):
+    done = run_cli("design", "gain", "--gain-dbi", "20", "--frequency-ghz", "10", "--waveguide", "WR-90",
+                   "--write-case", str(tmp_path / "no" / "such" / "x.toml"))
+    assert done.returncode == 2 and "Traceback" not in done.stderr
+    assert "--write-case" in done.stderr
+
+
+def test_debug_is_accepted_after_the_command():
+    assert run_cli("predict", str(DEMO), "--debug").returncode == 0
+
+
+def test_help_matches_the_documented_options():
+    # README.md's commands table names these options; --help must offer them
+    expected = {
+        "predict": ["--json", "--equivalent"],
+        "simulate": ["--cells-per-wavelength", "--out", "--json", "--image", "--force"],
+        "verify": ["--cells-per-wavelength", "--out", "--json", "--force"],
+        "sweep": ["--cells-per-wavelength", "--dims", "--analytic-only", "--out"],
+        "regress": ["--tier", "--update", "--junit", "--baselines", "--fresh"],
+        "report": [],
+    }
+    readme = (ROOT / "README.md").read_text()
+    for command, options in expected.items():
+        text = run_cli(command, "--help").stdout
+        for option in options:
+            assert option in text, (command, option)
+            assert option in readme, (command, option)
+
+
+@pytest.mark.fullwave
+def test_sigterm_during_verify_leaves_nothing_behind(tmp_path):
+    import os
+    import signal
+    import time
+
+    out = tmp_path / "o"
+    proc = subprocess.Popen([sys.executable, "-m", "hornproof.compare.cli", "verify", str(DEMO),
+                             "--out", str(out)], cwd=ROOT, stdout=subprocess.DEVNULL,
+                            stderr=subprocess.PIPE, text=True, env=dict(os.environ, MPLBACKEND="Agg"))
+    # wait until the second grid runs, then terminate
+    deadline = time.monotonic() + 120
+    seen = ""
+    while time.monotonic() < deadline and "grid 2/3" not in seen:
+        line = proc.stderr.readline()
+        if not line:
+            break
+        seen += line
+    assert "grid 2/3" in seen
+    proc.send_signal(signal.SIGTERM)
+    _, err = proc.communicate(timeout=60)
+    assert proc.returncode == 143, err
+    assert "terminated" in err and "Traceback" not in err
+    assert list(tmp_path.iterdir()) == []

@@ -1,8 +1,9 @@
 """verify end to end on small 2D cases (full-wave, a few seconds per grid).
 
 Outside references: the closed-form aperture theory of a long, gently flared horn is known to
-hold (peak phase error < 0.15 wavelength: the quadratic phase approximation is then accurate,
-REFERENCES.md, IEEE AP-S 1992 abstract: agreement for S < 0.2), so the FDTD must agree with it
+hold (peak phase error < 0.15 wavelength: the quadratic phase approximation is then accurate —
+"Pyramidal horn gain calculation with improved accuracy", IEEE AP-S International Symposium
+Digest, 1992, doi:10.1109/APS.1992.221722, abstract: agreement for S < 0.2), so the FDTD must agree with it
 within the case's tolerance; the phase-approximation error is by definition closed form minus
 exact phase, the number `predict` prints.
 """
