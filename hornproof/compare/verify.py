@@ -90,7 +90,7 @@ def _progress_reporter(case, cells_per_wavelength):
     return ProgressReporter(f"hornproof:   {case.name} at {cells_per_wavelength:g} cells per wavelength")
 
 
-def run_fdtd_ladder(case, ladder, *, force=False, log=_say):
+def run_fdtd_ladder(case, ladder, *, force=False, log=_say, progress=None):
     """Run the FDTD model once per grid of ``ladder`` (cells per wavelength), coarse first.
 
     Returns the list of SimResult, in the order of ``ladder`` as given.
@@ -109,7 +109,7 @@ def run_fdtd_ladder(case, ladder, *, force=False, log=_say):
         log(f"hornproof:   {resource_line(case, cpw)}")
         t0 = time.monotonic()
         result = simulate(case.horn, case.frequencies, case.fdtd, cpw, force=force,
-                          progress=_progress_reporter(case, cpw))
+                          progress=progress or _progress_reporter(case, cpw))
         seconds = time.monotonic() - t0
         rate = _relative_cost(cpw, dims) / max(seconds, 1e-3)
         key = "directivity_2d_db" if dims == 2 else "directivity_dbi"
@@ -347,7 +347,7 @@ def solver_block(case, sim_results, ladder, seconds):
     })
 
 
-def verify_case(case, out_dir=None, *, force=False, ladder=None):
+def verify_case(case, out_dir=None, *, force=False, ladder=None, progress=None):
     """Run the main job on ``case`` and write its result folder.
 
     Parameters
@@ -359,6 +359,9 @@ def verify_case(case, out_dir=None, *, force=False, ladder=None):
         Run even if the resource estimate exceeds free memory.
     ladder : list of float, optional
         Cells per wavelength, overriding the case's ladder.
+    progress : callable, optional
+        Passed to every ``sim.run.simulate`` call (default: a ``ProgressReporter`` that prints
+        on a terminal only).
 
     Returns
     -------
@@ -372,7 +375,7 @@ def verify_case(case, out_dir=None, *, force=False, ladder=None):
     out_dir = Path(out_dir) if out_dir is not None else default_out_dir(case)
     summary, models = predict_case(case)
     nf = len(case.frequencies)
-    sim_results = run_fdtd_ladder(case, ladder, force=force)
+    sim_results = run_fdtd_ladder(case, ladder, force=force, progress=progress)
     level_figures = [_fdtd_figures(r) for r in sim_results]
     finest = int(np.argmax(ladder))
     fdtd = dict(level_figures[finest])
