@@ -91,21 +91,11 @@ def build_parser():
     p.add_argument("--json", action="store_true")
     p.add_argument("--force", action="store_true")
 
-    p = sub.add_parser("regress", help="nightly suite against stored baselines (JUnit XML)")
-    try:
-        from .regress import add_regress_arguments
-    except ImportError:  # pragma: no cover - during development only
-        add_regress_arguments = None
-    if add_regress_arguments is not None:
-        add_regress_arguments(p)
+    from .design_command import add_design_arguments
+    from .regress import add_regress_arguments
 
-    p = sub.add_parser("design", help="optimum horn sizing (analytic)")
-    try:
-        from .design_command import add_design_arguments
-    except ImportError:  # pragma: no cover - during development only
-        add_design_arguments = None
-    if add_design_arguments is not None:
-        add_design_arguments(p)
+    add_regress_arguments(sub.add_parser("regress", help="nightly suite against stored baselines (JUnit XML)"))
+    add_design_arguments(sub.add_parser("design", help="optimum horn sizing (analytic)"))
 
     p = sub.add_parser("report", help="rebuild report.html from a stored result folder")
     p.add_argument("result_dir", help="a folder holding result.json (from verify or sweep)")
