@@ -380,6 +380,10 @@ def verify_case(case, out_dir=None, *, force=False, ladder=None, progress=None):
     finest = int(np.argmax(ladder))
     fdtd = dict(level_figures[finest])
     uncertainty, estimates, values = ladder_convergence(ladder, level_figures, nf)
+    if ("directivity_2d_db" if int(case.fdtd.dims) == 2 else "directivity_dbi") in uncertainty:
+        # the schema's name for the directivity uncertainty (dB), beside the per-figure keys
+        uncertainty["directivity_db"] = uncertainty["directivity_2d_db" if int(case.fdtd.dims) == 2
+                                                    else "directivity_dbi"]
     fdtd["uncertainty"] = uncertainty
     fdtd["wall_thickness_modelled_mm"] = sim_results[finest].run.get("wall_thickness_modelled_m", np.nan) * 1e3
     summary["models"]["fdtd"] = fdtd
