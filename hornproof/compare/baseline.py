@@ -128,6 +128,16 @@ def _number_or_none(value, where):
     return value
 
 
+def _frequency_list(frequencies):
+    """``frequencies_ghz`` as a non-empty list of numbers (ValueError naming the key)."""
+    if not isinstance(frequencies, list) or not frequencies:
+        raise ValueError("frequencies_ghz: missing or empty")
+    frequencies = [_number_or_none(f, f"frequencies_ghz[{i}]") for i, f in enumerate(frequencies)]
+    if any(f is None for f in frequencies):
+        raise ValueError("frequencies_ghz: null frequency")
+    return frequencies
+
+
 def _number_list(values, length, where):
     if not isinstance(values, list):
         raise ValueError(f"{where}: expected a list, got {type(values).__name__}")
@@ -153,12 +163,7 @@ def figures_from_result(result):
     """
     if not isinstance(result, dict):
         raise ValueError("summary: expected a JSON object")
-    frequencies = result.get("frequencies_ghz")
-    if not isinstance(frequencies, list) or not frequencies:
-        raise ValueError("frequencies_ghz: missing or empty")
-    frequencies = [_number_or_none(f, f"frequencies_ghz[{i}]") for i, f in enumerate(frequencies)]
-    if any(f is None for f in frequencies):
-        raise ValueError("frequencies_ghz: null frequency")
+    frequencies = _frequency_list(result.get("frequencies_ghz"))
     models = result.get("models")
     fdtd = models.get("fdtd") if isinstance(models, dict) else None
     if not isinstance(fdtd, dict):
@@ -262,12 +267,7 @@ def read_baseline(path):
         for key in ("case", "tier", "case_sha256"):
             if not isinstance(data.get(key), str):
                 raise ValueError(f"{key}: missing or not a string")
-        frequencies = data.get("frequencies_ghz")
-        if not isinstance(frequencies, list) or not frequencies:
-            raise ValueError("frequencies_ghz: missing or empty")
-        frequencies = [_number_or_none(f, f"frequencies_ghz[{i}]") for i, f in enumerate(frequencies)]
-        if any(f is None for f in frequencies):
-            raise ValueError("frequencies_ghz: null frequency")
+        frequencies = _frequency_list(data.get("frequencies_ghz"))
         raw = data.get("figures")
         if not isinstance(raw, dict) or not raw:
             raise ValueError("figures: missing or empty")

@@ -11,7 +11,6 @@ so it can go straight to ``verify``.
 """
 
 import json
-import sys
 from pathlib import Path
 
 import numpy as np

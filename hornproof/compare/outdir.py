@@ -7,6 +7,7 @@ anything else is refused with a one-line ``InputError`` before the solver starts
 
 import json
 import os
+import shutil
 import tempfile
 from pathlib import Path
 
@@ -85,3 +86,30 @@ def check_new_file(path, option):
         raise InputError(f"{path}: {option}: the folder {str(target.parent)!r} does not exist")
     _check_writable(target.parent, str(path), option)
     return target
+
+
+def publish_folder(out_dir, write):
+    """Build a result folder under a temporary name, then swap it into place.
+
+    ``write(staging)`` writes every file into ``staging``; only when it returns is the old
+    folder (if any) moved aside and the new one renamed to ``out_dir``. On any failure or
+    signal the staging folder is removed and ``out_dir`` is left as it was.
+    """
+    out_dir = Path(out_dir)
+    out_dir.parent.mkdir(parents=True, exist_ok=True)
+    staging = Path(tempfile.mkdtemp(prefix=f".{out_dir.name}.partial-", dir=out_dir.parent))
+    try:
+        write(staging)
+        os.chmod(staging, 0o755)
+        if out_dir.exists():
+            old = Path(tempfile.mkdtemp(prefix=f".{out_dir.name}.old-", dir=out_dir.parent))
+            os.rmdir(old)
+            os.replace(out_dir, old)
+            os.replace(staging, out_dir)
+            shutil.rmtree(old, ignore_errors=True)
+        else:
+            os.replace(staging, out_dir)
+    except BaseException:
+        shutil.rmtree(staging, ignore_errors=True)
+        raise
+    return out_dir

@@ -1,12 +1,10 @@
 """``hornproof predict CASE``: both analytic models of a case, instantly."""
 
-import sys
-
 import numpy as np
 
 from ..analytic.predict import predict
 from .casefile import load_case
-from .summary import base_summary, dumps, safety_lines, emit
+from .summary import base_summary, emit_result, safety_lines
 
 
 def predict_case(case, equivalent="huygens"):
@@ -62,8 +60,5 @@ def format_table(summary):
 def predict_command(args):
     case = load_case(args.case)
     summary, _ = predict_case(case, equivalent=args.equivalent)
-    if args.json:
-        emit(dumps(summary))
-    else:
-        emit(format_table(summary))
+    emit_result(args.json, summary, format_table(summary))
     return 0

@@ -1,27 +1,21 @@
 """``hornproof simulate CASE``: the FDTD model alone, one grid."""
 
 import os
-import shutil
-import sys
-import tempfile
 from pathlib import Path
 
 import numpy as np
 
 from ..errors import InputError
 from .casefile import load_case
-from .outdir import check_output_folder
-from .summary import base_summary, dumps, jsonable, safety_lines, emit
+from .outdir import check_output_folder, publish_folder
+from .summary import base_summary, emit_result, jsonable, safety_lines
 
 
 def simulate_case(case, cells_per_wavelength, out_dir, *, force=False, image=False):
     """Run one FDTD model of ``case`` and write fields.h5, s11.s1p, result.json (and model.png)."""
-    from ..atomic import write_text_atomic
-    from ..sim.output import write_fields_h5
     from ..sim.run import simulate
-    from ..sim.touchstone import write_s1p
-    from .verify import (_fdtd_figures, _is_master, _progress_reporter, _say, resource_line, solver_block,
-                         solver_warnings)
+    from .verify import (_fdtd_figures, _is_master, _model_image, _progress_reporter, _say, _write_outputs,
+                         resource_line, solver_block, solver_warnings)
 
     _say(f"hornproof: FDTD {case.fdtd.dims}D model at {cells_per_wavelength:g} cells per wavelength")
     _say(f"hornproof:   {resource_line(case, cells_per_wavelength)}")
@@ -37,28 +31,18 @@ def simulate_case(case, cells_per_wavelength, out_dir, *, force=False, image=Fal
     for warning in result.run.get("warnings", []) or []:
         _say(f"hornproof: warning: {warning}")
     summary = jsonable(summary)
-    if _is_master():
-        out_dir = Path(out_dir)
-        out_dir.parent.mkdir(parents=True, exist_ok=True)
-        staging = Path(tempfile.mkdtemp(prefix=f".{out_dir.name}.partial-", dir=out_dir.parent))
-        try:
-            write_fields_h5(staging / "fields.h5", result, case_sha256=case.sha256, case_name=case.name)
-            s11 = np.asarray(result.extra["s11_real"]) + 1j * np.asarray(result.extra["s11_imag"])
-            write_s1p(staging / "s11.s1p", case.frequencies, s11, case_name=case.name,
-                      solver_version=str(result.run.get("meep_version", "")))
-            if image:
-                from ..sim.model import model_image
+    image = _model_image(case, cells_per_wavelength, Path(out_dir)) if image else None  # all ranks
+    try:
+        if _is_master():
+            def write(staging):
+                _write_outputs(staging, case, summary, [result], [cells_per_wavelength])
+                if image is not None and image.is_file():
+                    os.replace(image, staging / "model.png")
 
-                model_image(case.horn, case.fdtd, cells_per_wavelength, staging / "model.png",
-                            frequencies=case.frequencies)
-            write_text_atomic(staging / "result.json", dumps(summary))
-            os.chmod(staging, 0o755)
-            if out_dir.exists():
-                shutil.rmtree(out_dir)
-            os.replace(staging, out_dir)
-        except BaseException:
-            shutil.rmtree(staging, ignore_errors=True)
-            raise
+            publish_folder(out_dir, write)
+    finally:
+        if image is not None:
+            Path(image).unlink(missing_ok=True)
     return summary
 
 
@@ -97,9 +81,5 @@ def simulate_command(args):
     from .verify import _is_master
 
     if _is_master():
-        if args.json:
-            emit(dumps(summary))
-        else:
-            emit(format_fdtd(summary))
-            print(f"  results: {out_dir}")
+        emit_result(args.json, summary, format_fdtd(summary), f"results: {out_dir}")
     return 0

@@ -85,6 +85,17 @@ def emit(text=""):
     stream.flush()
 
 
+def emit_result(as_json, document, table, where=None):
+    """A command's result on standard output: the JSON document, or the table for people
+    followed by where the files are."""
+    if as_json:
+        emit(dumps(document))
+        return
+    emit(table)
+    if where:
+        emit(f"  {where}")
+
+
 def safety_lines(indent="  ", width=96):
     """The RF-exposure caution wrapped for a terminal."""
     import textwrap

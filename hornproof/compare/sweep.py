@@ -18,7 +18,6 @@ rerun recomputes nothing it already finished.
 
 import hashlib
 import json
-import sys
 import time
 from pathlib import Path
 
@@ -28,7 +27,7 @@ from .. import __version__
 from ..errors import InputError
 from .casefile import load_case
 from .outdir import check_output_folder
-from .summary import SAFETY_NOTE, dumps, jsonable, safety_lines, emit
+from .summary import SAFETY_NOTE, dumps, emit_result, jsonable, safety_lines
 
 SCHEMA = "hornproof.sweep/1"
 
@@ -44,13 +43,6 @@ PARAMETER_LABELS = {
 #: grids give a GCI with an observed order (Celik et al. 2008); two grids force the assumed
 #: order and safety factor 3, which in a development run here hid every breakdown
 GRID_RATIOS = (1.0, 1.4, 2.0)
-
-
-def _say(message):
-    from .verify import _is_master
-
-    if _is_master():
-        print(message, file=sys.stderr, flush=True)
 
 
 def _meep_version():
@@ -103,7 +95,7 @@ def _run_point(horn, frequencies, settings, ladder, force):
     return jsonable(point)
 
 
-def run_sweep(case, out_dir, *, dims=None, ladder=None, analytic_only=False, force=False, log=_say):
+def run_sweep(case, out_dir, *, dims=None, ladder=None, analytic_only=False, force=False, log=None):
     """Run (or resume) the sweep of ``case``; returns the ``hornproof.sweep/1`` document."""
     import dataclasses
 
@@ -111,6 +103,9 @@ def run_sweep(case, out_dir, *, dims=None, ladder=None, analytic_only=False, for
     from .verdict import breakdown_threshold
     from .verify import _is_master
 
+    from .verify import _say
+
+    log = log or _say
     spec = case.sweep
     if spec is None:
         raise InputError(f"{case.path}: sweep: the case has no [sweep] table")
@@ -357,9 +352,5 @@ def sweep_command(args):
     from .verify import _is_master
 
     if _is_master():
-        if args.json:
-            emit(dumps(document))
-        else:
-            emit(format_sweep(document))
-            print(f"  report: {out_dir / 'report.html'}")
+        emit_result(args.json, document, format_sweep(document), f"report: {out_dir / 'report.html'}")
     return 0

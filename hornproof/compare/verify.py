@@ -9,19 +9,16 @@ complete, so an interrupted or failed run never leaves a half-written result fol
 """
 
 import os
-import shutil
 import sys
-import tempfile
 import time
 from pathlib import Path
 
 import numpy as np
 
-from ..errors import InputError, RunError
 from .casefile import load_case
-from .outdir import check_output_folder
+from .outdir import check_output_folder, publish_folder
 from .predict_command import predict_case
-from .summary import dumps, jsonable, safety_lines, emit
+from .summary import dumps, emit_result, jsonable, safety_lines
 
 #: case-file check name -> comparison metrics it applies to (verdict.COMPARED_FIGURES keys)
 CHECK_METRICS = {
@@ -442,32 +439,17 @@ def _model_image(case, cells_per_wavelength, out_dir):
 
 
 def _publish(out_dir, case, summary, models, sim_results, ladder, uncertainty, estimates, image=None):
-    """Write every output into a staging folder, then swap it into place."""
+    """Write every output into a staging folder, then swap it into place (``publish_folder``)."""
     from .report import build_report
 
-    out_dir = Path(out_dir)
-    out_dir.parent.mkdir(parents=True, exist_ok=True)
-    staging = Path(tempfile.mkdtemp(prefix=f".{out_dir.name}.partial-", dir=out_dir.parent))
-    try:
+    def write(staging):
         _write_outputs(staging, case, summary, sim_results, ladder)
         _plots(staging, case, summary, models, sim_results, ladder, uncertainty, estimates)
         if image is not None and image.is_file():
             os.replace(image, staging / "model.png")
         build_report(staging)
-        os.chmod(staging, 0o755)
-        if out_dir.exists():
-            old = Path(tempfile.mkdtemp(prefix=f".{out_dir.name}.old-", dir=out_dir.parent))
-            os.rmdir(old)
-            os.replace(out_dir, old)
-            os.replace(staging, out_dir)
-            shutil.rmtree(old, ignore_errors=True)
-        else:
-            os.replace(staging, out_dir)
-    except BaseException:
-        shutil.rmtree(staging, ignore_errors=True)
-        if image is not None:
-            Path(image).unlink(missing_ok=True)
-        raise
+
+    publish_folder(out_dir, write)
 
 
 def format_verdicts(summary):
@@ -509,9 +491,5 @@ def verify_command(args):
                                   "--out" if args.out else "the default result folder")
     summary = verify_case(case, out_dir, force=args.force)
     if _is_master():
-        if args.json:
-            emit(dumps(summary))
-        else:
-            emit(format_verdicts(summary))
-            print(f"  report: {out_dir / 'report.html'}")
+        emit_result(args.json, summary, format_verdicts(summary), f"report: {out_dir / 'report.html'}")
     return 1 if summary["comparison"]["failed_checks"] else 0

@@ -7,7 +7,6 @@ S = 3/8). At fixed *flare length* the apex distance R = L·A/(A − a) shrinks a
 optimum moves below 0.3965 by an amount that vanishes as a/A → 0 (see analytic/design.py).
 """
 
-import json
 import os
 import signal
 import subprocess
