@@ -291,11 +291,10 @@ def _plots(folder, case, summary, models, sim_results, ladder, uncertainty, esti
         fdtd_uncertainty_db=[np.nan if v is None else v for v in uncertainty.get(dkey, [None] * len(freqs))],
         case_title=title, unit=unit, quantity="2D directivity" if dims == 2 else "Directivity")
     if len(ladder) > 1 and dkey in estimates:
-        from .convergence import grid_convergence
-
-        stack = np.array([_column(_fdtd_figures(r), dkey, len(freqs)) for r in sim_results])
-        est = grid_convergence(stack[:, centre], cells_per_wavelength=ladder, formal_order=FORMAL_ORDER)[0]
-        plots.plot_convergence_ladder(ladder, stack[:, centre], folder / "convergence_ladder", estimate=est,
+        column = [np.nan if row[centre] is None else row[centre]
+                  for row in summary["comparison"]["convergence"]["values"]]
+        plots.plot_convergence_ladder(ladder, column, folder / "convergence_ladder",
+                                      estimate=estimates[dkey][centre],
                                       quantity="2D directivity" if dims == 2 else "Directivity", unit=unit,
                                       frequency=freqs[centre], case_title=title)
     if fd.get("s11_db") is not None:
