@@ -101,6 +101,8 @@ h2 { font-size: 1.15em; border-bottom: 1px solid #bbb; padding-bottom: 0.15em; m
 .sub { color: #555; margin-top: 0; }
 .overall { display: inline-block; padding: 0.3em 0.8em; border: 2px solid #444; font-weight: bold; }
 table { border-collapse: collapse; margin: 0.6em 0; font-size: 0.92em; }
+div.wide { overflow-x: auto; }
+#verdicts { font-size: 0.85em; }
 th, td { border: 1px solid #ccc; padding: 0.25em 0.6em; text-align: right; }
 th { background: #f1f1ec; }
 td.text, th.text { text-align: left; }
@@ -283,7 +285,8 @@ def _verdict_table(comparison):
             )
     if not rows:
         return "<p>No comparison in this result (analytic prediction or FDTD only).</p>"
-    return "<table id='verdicts'>" + head + "".join(rows) + "</table>" + _VERDICT_RULE
+    return ("<div class='wide'><table id='verdicts'>" + head + "".join(rows) + "</table></div>"
+            + _VERDICT_RULE)
 
 
 def _frequency_at(result, index):
