@@ -8,9 +8,9 @@ Run from the repository root::
 1. Cache-hit path: every shipped case (cases/*.toml) copied to a scratch folder; the result cache
    filled once with *synthetic* summaries (the cache-hit path never calls the runner, so what it
    costs does not depend on where the cached results came from); then the whole suite is compared
-   again, in process and as a fresh ``python -m hornproof.compare.regress`` (interpreter start
+   again, in process and as a fresh ``python -m hornproof.compare.regress.runner`` (interpreter start
    included). Target: under 1 s.
-2. Quick tier, real runs (``hornproof.compare.verify.verify_case``): wall time serial, under
+2. Quick tier, real runs (``hornproof.compare.jobs.verify.verify_case``): wall time serial, under
    ``mpirun -np 2`` with the automatic plan, and with ``--ranks-per-case 1`` (two process groups,
    one case each at a time), each with ``--fresh``. Skipped, and said so, when verify
    is not available.
@@ -33,7 +33,7 @@ from pathlib import Path
 REPO = Path(__file__).resolve().parents[1]
 sys.path.insert(0, str(REPO))
 
-from hornproof.compare import regress  # noqa: E402
+from hornproof.compare.regress import runner as regress  # noqa: E402
 
 
 def synthetic_runner(case, out_dir, *, force=False, progress=None):
@@ -72,7 +72,7 @@ def bench_cache_hit(scratch, repeats):
     os.chdir(scratch)
     code = _quiet_main(["--update"], runner=synthetic_runner)
     if code != 0:
-        print(f"cache fill failed (exit {code}); see: cd {scratch} && python -m hornproof.compare.regress")
+        print(f"cache fill failed (exit {code}); see: cd {scratch} && python -m hornproof.compare.regress.runner")
         return
     in_process = []
     for _ in range(repeats):
@@ -84,7 +84,7 @@ def bench_cache_hit(scratch, repeats):
     env = dict(os.environ, PYTHONPATH=str(REPO))
     for _ in range(repeats):
         started = time.perf_counter()
-        done = subprocess.run([sys.executable, "-m", "hornproof.compare.regress"], cwd=scratch, env=env,
+        done = subprocess.run([sys.executable, "-m", "hornproof.compare.regress.runner"], cwd=scratch, env=env,
                               capture_output=True, text=True)
         fresh_process.append(time.perf_counter() - started)
         if done.returncode != 0:
@@ -98,15 +98,15 @@ def bench_cache_hit(scratch, repeats):
 
 def bench_mpi(scratch, cases, timeout):
     try:
-        from hornproof.compare.verify import verify_case  # noqa: F401
+        from hornproof.compare.jobs.verify import verify_case  # noqa: F401
     except ImportError as error:
-        print(f"serial vs mpirun -np 2: skipped, hornproof.compare.verify not available ({error})")
+        print(f"serial vs mpirun -np 2: skipped, hornproof.compare.jobs.verify not available ({error})")
         return
     if shutil.which("mpirun") is None:
         print("serial vs mpirun -np 2: skipped, no mpirun")
         return
     env = dict(os.environ, PYTHONPATH=str(REPO))
-    base = [sys.executable, "-m", "hornproof.compare.regress", "--tier", "quick", "--fresh",
+    base = [sys.executable, "-m", "hornproof.compare.regress.runner", "--tier", "quick", "--fresh",
             "--baselines", str(scratch / "baselines")] + [str(c) for c in cases]
     times = {}
     mpirun = ["mpirun", "--allow-run-as-root", "--oversubscribe", "-np", "2"]

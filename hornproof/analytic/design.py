@@ -29,7 +29,8 @@ import numpy as np
 from scipy.optimize import brentq, minimize_scalar
 
 from ..units import wavelength as _wavelength
-from . import closed_form, exact_phase
+from . import closed_form
+from . import exact_phase
 from .gain_reduction import e_plane_efficiency, h_plane_efficiency
 from .geometry import HornGeometry, apex_distance
 from .waveguide import te10_cutoff_frequency

@@ -7,7 +7,8 @@ import numpy as np
 
 from ..units import db10
 from ..units import wavelength as _wavelength
-from . import closed_form, exact_phase
+from . import closed_form
+from . import exact_phase
 from .line_source import check_equivalent, check_frequency, flared_line_source
 from .model_result import ModelResult
 from .pattern_metrics import cut_metrics

@@ -1,0 +1,180 @@
+"""``hornproof design …``: optimum horn sizing with the analytic models.
+
+Two questions an engineer asks before drawing a horn:
+
+* ``design gain`` — which realizable pyramidal horn (equal flare lengths in both planes)
+  reaches a target gain at a frequency, with a given feed guide?
+* ``design flare`` — for a given axial flare length, which aperture maximises directivity?
+
+``--write-case FILE`` writes the designed horn as a format-1 case file (refusing to overwrite)
+so it can go straight to ``verify``.
+"""
+
+import json
+from pathlib import Path
+
+import numpy as np
+
+from ...errors import InputError
+from ...units import GHZ, MM
+from ..output.folders import check_new_file
+from ..output.summary import SAFETY_NOTE, jsonable, safety_lines, emit
+
+
+def add_design_arguments(parser):
+    sub = parser.add_subparsers(dest="design_kind", metavar="QUESTION")
+    common = []
+    g = sub.add_parser("gain", help="realizable pyramidal horn for a target gain")
+    g.add_argument("--gain-dbi", type=float, required=True, help="target boresight gain, dBi")
+    common.append(g)
+    f = sub.add_parser("flare", help="aperture of maximum directivity at a fixed flare length")
+    f.add_argument("--type", dest="horn_type", choices=("h-sectoral", "e-sectoral", "pyramidal"), required=True)
+    f.add_argument("--flare-length-mm", type=float, required=True, help="axial length, throat to aperture, mm")
+    common.append(f)
+    for p in common:
+        p.add_argument("--frequency-ghz", type=float, required=True, help="design frequency, GHz")
+        p.add_argument("--waveguide", help="EIA guide, e.g. WR-90")
+        p.add_argument("--waveguide-a-mm", type=float, help="guide width a, mm (instead of --waveguide)")
+        p.add_argument("--waveguide-b-mm", type=float, help="guide height b, mm (instead of --waveguide)")
+        p.add_argument("--model", choices=("closed_form", "exact_phase"), default="closed_form",
+                       help="model whose directivity is optimised or matched (default closed_form)")
+        p.add_argument("--wall-mm", type=float, default=1.0, help="wall thickness for --write-case, mm")
+        p.add_argument("--write-case", metavar="FILE", help="write the designed horn as a case file")
+        p.add_argument("--json", action="store_true")
+    g.add_argument("--phase-errors", default="rule",
+                   help="'rule' (S = 3/8, T = 1/4), 'optimum' (0.3965, 0.2624) or 'S,T' in wavelengths")
+
+
+def _guide(args):
+    from ...analytic.waveguide import EIA_WAVEGUIDES, waveguide_size
+
+    if args.waveguide and (args.waveguide_a_mm or args.waveguide_b_mm):
+        raise InputError("--waveguide: give an EIA name or --waveguide-a-mm/--waveguide-b-mm, not both")
+    if args.waveguide:
+        try:
+            return waveguide_size(args.waveguide)
+        except KeyError:
+            raise InputError(f"--waveguide: unknown EIA size {args.waveguide!r} (known: {', '.join(EIA_WAVEGUIDES)})")
+    if args.waveguide_a_mm is None or args.waveguide_b_mm is None:
+        raise InputError("--waveguide: give an EIA name or both --waveguide-a-mm and --waveguide-b-mm")
+    if not (args.waveguide_a_mm > 0 and args.waveguide_b_mm > 0):
+        raise InputError("--waveguide-a-mm: guide sizes must be positive")
+    return args.waveguide_a_mm * MM, args.waveguide_b_mm * MM
+
+
+def _phase_errors(text):
+    if text in ("rule", "optimum"):
+        return text
+    try:
+        s, t = (float(v) for v in text.split(","))
+    except ValueError:
+        raise InputError(f"--phase-errors: expected 'rule', 'optimum' or 'S,T', got {text!r}")
+    return (s, t)
+
+
+def _design(args):
+    from ...analytic import design
+
+    a, b = _guide(args)
+    if not args.frequency_ghz > 0:
+        raise InputError("--frequency-ghz: must be positive")
+    frequency = args.frequency_ghz * GHZ
+    try:
+        if args.design_kind == "gain":
+            return design.design_for_gain(args.gain_dbi, frequency, a, b, phase_errors=_phase_errors(args.phase_errors),
+                                          model=args.model, wall_thickness=args.wall_mm * MM)
+        if not args.flare_length_mm > 0:
+            raise InputError("--flare-length-mm: must be positive")
+        return design.optimum_horn(args.horn_type, a, b, args.flare_length_mm * MM, frequency, model=args.model,
+                                   wall_thickness=args.wall_mm * MM)
+    except ValueError as error:
+        raise InputError(f"design {args.design_kind}: {error}")
+
+
+def design_summary(result):
+    from ...analytic.predict import predict
+
+    horn = result.horn
+    models = predict(horn, [result.frequency])
+    summary = {
+        "schema": "hornproof.design/1",
+        "model": result.model,
+        "frequency_ghz": result.frequency / GHZ,
+        "geometry": horn.summary(result.frequency),
+        "directivity_dbi": result.directivity_dbi,
+        "aperture_efficiency": result.aperture_efficiency,
+        "phase_error_h_wl": result.phase_error_h_wl,
+        "phase_error_e_wl": result.phase_error_e_wl,
+        "phase_reference": result.phase_reference,
+        "both_models_dbi": {name: float(np.asarray(m.directivity_dbi)[0]) for name, m in models.items()},
+        "safety": SAFETY_NOTE,
+    }
+    return jsonable(summary)
+
+
+def case_text(summary, source):
+    g = summary["geometry"]
+    f = summary["frequency_ghz"]
+    return f"""# Written by 'hornproof design {source}' — a starting point, check it before use.
+format = 1
+title = "{g['type']} horn designed for {f:g} GHz ({summary['model']}: {summary['directivity_dbi']:.2f} dBi)"
+
+[horn]
+type = "{g['type']}"
+waveguide_a_mm = {g['guide_a_mm']:.4f}
+waveguide_b_mm = {g['guide_b_mm']:.4f}
+aperture_a_mm = {g['aperture_a_mm']:.4f}
+aperture_b_mm = {g['aperture_b_mm']:.4f}
+flare_length_mm = {g['flare_length_mm']:.4f}
+wall_mm = {g['wall_mm']:.4f}
+
+[band]
+f_min_ghz = {f * 0.95:.4f}
+f_max_ghz = {f * 1.05:.4f}
+points = 3
+
+[fdtd]
+dims = 3
+cells_per_wavelength = [10, 14, 20]
+
+[checks]
+directivity_db = 0.5
+"""
+
+
+def format_design(summary):
+    g = summary["geometry"]
+    lines = [f"{g['type']} horn for {summary['frequency_ghz']:g} GHz ({summary['model'].replace('_', ' ')} model)",
+             f"  guide            {g['guide_a_mm']:.3f} x {g['guide_b_mm']:.3f} mm",
+             f"  aperture A x B   {g['aperture_a_mm']:.2f} x {g['aperture_b_mm']:.2f} mm",
+             f"  flare length     {g['flare_length_mm']:.2f} mm (axial, both planes)",
+             f"  apex distances   H {g['apex_h_mm'] or float('inf'):.2f} mm   E {g['apex_e_mm'] or float('inf'):.2f} mm",
+             f"  flare half-angle H {g['flare_half_angle_h_deg']:.2f} deg   E {g['flare_half_angle_e_deg']:.2f} deg",
+             f"  peak phase error S {summary['phase_error_h_wl']:.3f}   T {summary['phase_error_e_wl']:.3f} wavelengths "
+             f"({summary['phase_reference']} convention)",
+             f"  directivity      {summary['directivity_dbi']:.2f} dBi, aperture efficiency "
+             f"{summary['aperture_efficiency'] * 100:.1f} %",
+             f"  both models      closed form {summary['both_models_dbi']['closed_form']:.2f} dBi, "
+             f"exact phase {summary['both_models_dbi']['exact_phase']:.2f} dBi",
+             safety_lines()]
+    return "\n".join(lines)
+
+
+def design_command(args):
+    if not getattr(args, "design_kind", None):
+        raise InputError("design: say what to design: 'hornproof design gain …' or 'hornproof design flare …'")
+    if args.write_case:
+        check_new_file(args.write_case, "--write-case")
+    result = _design(args)
+    summary = design_summary(result)
+    if args.write_case:
+        from ...atomic import write_text_atomic
+
+        write_text_atomic(Path(args.write_case), case_text(summary, args.design_kind))
+    if args.json:
+        emit(json.dumps(summary, indent=1) + "\n")
+    else:
+        emit(format_design(summary))
+        if args.write_case:
+            emit(f"  case file written: {args.write_case}")
+    return 0

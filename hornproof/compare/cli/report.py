@@ -1,0 +1,29 @@
+"""``hornproof report RESULT_DIR``: rebuild report.html from stored results."""
+
+import json
+from pathlib import Path
+
+from ...errors import InputError
+from ..output.summary import emit
+
+
+def report_command(args):
+    folder = Path(args.result_dir)
+    if not folder.is_dir():
+        raise InputError(f"{folder}: not a folder (give the folder that holds result.json or sweep.json)")
+    if (folder / "sweep.json").is_file():
+        from ..report.html import build_sweep_report
+
+        path = build_sweep_report(folder)
+    elif (folder / "result.json").is_file():
+        from ..report.html import build_report
+
+        try:
+            json.loads((folder / "result.json").read_text())
+        except json.JSONDecodeError as error:
+            raise InputError(f"{folder / 'result.json'}: not valid JSON ({error.msg}, line {error.lineno})")
+        path = build_report(folder)
+    else:
+        raise InputError(f"{folder}: no result.json or sweep.json in this folder")
+    emit(path)
+    return 0

@@ -1,0 +1,296 @@
+"""Verdicts on model differences, the split of the error into its causes, breakdown thresholds.
+
+Verdict rule (per metric, per frequency), with d the difference, u ≥ 0 its numerical
+uncertainty (figure units, e.g. the GCI of the FDTD value) and t the tolerance:
+
+``"disagrees"``   |d| − u > t: beyond tolerance even at the most favourable end of the
+                  uncertainty.
+``"unresolved"``  otherwise, if u > t: the numerical uncertainty alone exceeds the tolerance,
+                  so agreement cannot be claimed (finer cells needed).
+``"agrees"``      otherwise: |d| ≤ t + u with u ≤ t.
+``"missing"``     d is NaN (a model did not provide the figure).
+
+An unknown uncertainty (NaN) is treated as unbounded: the verdict is ``"unresolved"``. Pass 0
+for comparisons without numerical uncertainty (closed form against exact phase). A difference
+smaller than its uncertainty is never a disagreement (|d| < u ⇒ |d| − u < 0 ≤ t).
+
+This is the comparison-error reasoning of ASME V&V 20-2009 (the comparison error E is judged
+against the validation uncertainty u_val), specialised to a stated tolerance; the exact
+three-way rule is hornproof's own.
+
+Error split. For a figure computed by the three models,
+
+* phase-approximation error = closed form − exact phase (what the quadratic phase costs),
+* aperture-model error = exact phase − FDTD (what the aperture-field model misses: walls,
+  rim diffraction, reflections, higher modes),
+* total error = closed form − FDTD = the sum of the two.
+
+References
+----------
+ASME V&V 20-2009, Standard for Verification and Validation in Computational Fluid Dynamics
+and Heat Transfer (comparison error E and validation uncertainty u_val).
+"""
+
+import numpy as np
+
+VERDICTS = ("agrees", "disagrees", "unresolved", "missing")
+
+
+def _float_array(values):
+    """Float array from a number or a (possibly nested) list; JSON null (None) -> NaN."""
+    if values is None:
+        return np.array(np.nan)
+    if isinstance(values, (list, tuple)):
+        return np.array([np.nan if v is None else v for v in values], dtype=float)
+    return np.asarray(values, dtype=float)
+
+
+def verdict(difference, tolerance, uncertainty=0.0):
+    """Verdict on one difference.
+
+    Parameters
+    ----------
+    difference : float
+        Model − reference, figure units (dB, degrees). NaN gives ``"missing"``.
+    tolerance : float
+        Accepted |difference|, figure units, ≥ 0.
+    uncertainty : float
+        Numerical uncertainty of the difference, figure units, ≥ 0; NaN = unknown.
+
+    Returns
+    -------
+    str
+        ``"agrees"``, ``"disagrees"``, ``"unresolved"`` or ``"missing"`` (module docstring).
+    """
+    tolerance = float(tolerance)
+    if not np.isfinite(tolerance) or tolerance < 0:
+        raise ValueError(f"tolerance: must be finite and non-negative, got {tolerance}")
+    difference = float(difference)
+    uncertainty = float(uncertainty)
+    if uncertainty < 0:
+        raise ValueError(f"uncertainty: must be non-negative, got {uncertainty}")
+    if np.isnan(difference):
+        return "missing"
+    if np.isnan(uncertainty):
+        return "unresolved"
+    if abs(difference) - uncertainty > tolerance:
+        return "disagrees"
+    if uncertainty > tolerance:
+        return "unresolved"
+    return "agrees"
+
+
+def verdicts(differences, tolerance, uncertainties=0.0):
+    """Verdicts for arrays of differences (shape [nf]); uncertainties broadcast.
+
+    Returns
+    -------
+    list of str
+        One verdict per element, see :func:`verdict`.
+    """
+    d = np.atleast_1d(_float_array(differences))
+    u = np.broadcast_to(_float_array(uncertainties), d.shape)
+    return [verdict(di, tolerance, ui) for di, ui in zip(d, u)]
+
+
+def overall_verdict(verdict_list):
+    """One verdict from many: any disagreement wins, then any unresolved, else agrees.
+
+    ``"missing"`` entries are ignored; an empty or all-missing list is ``"unresolved"``.
+    """
+    items = [v for v in verdict_list if v != "missing"]
+    unknown = set(items) - set(VERDICTS)
+    if unknown:
+        raise ValueError(f"verdict_list: unknown verdicts {sorted(unknown)}")
+    if not items:
+        return "unresolved"
+    if "disagrees" in items:
+        return "disagrees"
+    if "unresolved" in items:
+        return "unresolved"
+    return "agrees"
+
+
+def error_split(closed_form, exact_phase, fdtd):
+    """Split the closed-form error into its phase-approximation and aperture-model parts.
+
+    Parameters
+    ----------
+    closed_form, exact_phase, fdtd : array_like, shape [nf]
+        The same figure from the three models (figure units; NaN allowed).
+
+    Returns
+    -------
+    dict of str -> numpy.ndarray [nf]
+        ``phase_approximation_error`` = closed form − exact phase,
+        ``aperture_model_error`` = exact phase − FDTD,
+        ``total_error`` = closed form − FDTD (= the sum of the other two).
+    """
+    cf = np.asarray(closed_form, dtype=float)
+    ep = np.asarray(exact_phase, dtype=float)
+    fd = np.asarray(fdtd, dtype=float)
+    if not (cf.shape == ep.shape == fd.shape):
+        raise ValueError(
+            f"closed_form, exact_phase, fdtd: shapes {cf.shape}, {ep.shape}, {fd.shape} differ"
+        )
+    return {
+        "phase_approximation_error": cf - ep,
+        "aperture_model_error": ep - fd,
+        "total_error": cf - fd,
+    }
+
+
+def breakdown_threshold(parameter_values, errors, uncertainties, tolerance):
+    """First parameter value where a model error exceeds tolerance beyond its uncertainty.
+
+    Parameters
+    ----------
+    parameter_values : array_like, shape [n]
+        Swept parameter (e.g. flare half-angle in degrees, or a length in m), distinct values,
+        any order (scanned from small to large).
+    errors : array_like, shape [n]
+        Model error at each value (figure units). NaN samples are skipped.
+    uncertainties : array_like or float, shape [n]
+        Numerical uncertainty of each error (≥ 0; NaN samples are skipped).
+    tolerance : float
+        Accepted |error| (≥ 0).
+
+    Returns
+    -------
+    float, None or str
+        The parameter value, linearly interpolated between the last sample where
+        |error| − uncertainty ≤ tolerance and the first where it exceeds it; ``None`` if it
+        never does; ``"below range"`` if already exceeded at the first usable sample.
+
+    Notes
+    -----
+    The interpolated quantity is the margin m = |error| − uncertainty − tolerance; the
+    threshold is the zero of m between the two samples (linear interpolation, common practice).
+    """
+    x = _float_array(parameter_values)
+    e = _float_array(errors)
+    u = np.broadcast_to(_float_array(uncertainties), e.shape)
+    if x.ndim != 1 or e.shape != x.shape:
+        raise ValueError(f"errors: shape {e.shape} must match parameter_values shape {x.shape}")
+    tolerance = float(tolerance)
+    if not np.isfinite(tolerance) or tolerance < 0:
+        raise ValueError(f"tolerance: must be finite and non-negative, got {tolerance}")
+    if np.any(u[np.isfinite(u)] < 0):
+        raise ValueError("uncertainties: must be non-negative")
+    if np.unique(x).size != x.size:
+        raise ValueError("parameter_values: values must be distinct")
+    keep = np.isfinite(x) & np.isfinite(e) & np.isfinite(u)
+    x, e, u = x[keep], e[keep], u[keep]
+    order = np.argsort(x)
+    x, margin = x[order], (np.abs(e) - u - tolerance)[order]
+    exceeded = np.nonzero(margin > 0)[0]
+    if exceeded.size == 0:
+        return None
+    i = int(exceeded[0])
+    if i == 0:
+        return "below range"
+    x0, x1, m0, m1 = x[i - 1], x[i], margin[i - 1], margin[i]
+    return float(x0 + (0.0 - m0) * (x1 - x0) / (m1 - m0))
+
+
+#: Metric name in the comparison block -> (figure key in result.json models, label, unit).
+COMPARED_FIGURES = {
+    "directivity_db": ("directivity_dbi", "Directivity", "dB"),
+    "directivity_2d_db": ("directivity_2d_db", "2D directivity", "dB"),
+    "realized_gain_db": ("realized_gain_dbi", "Realized gain", "dB"),
+    "hpbw_h_deg": ("hpbw_h_deg", "HPBW, H-plane", "deg"),
+    "hpbw_e_deg": ("hpbw_e_deg", "HPBW, E-plane", "deg"),
+    "first_null_h_deg": ("first_null_h_deg", "First null, H-plane", "deg"),
+    "first_null_e_deg": ("first_null_e_deg", "First null, E-plane", "deg"),
+    "sll_h_db": ("sll_h_db", "Sidelobe level, H-plane", "dB"),
+    "sll_e_db": ("sll_e_db", "Sidelobe level, E-plane", "dB"),
+}
+
+
+def _column(figures, key, nf):
+    if figures is None or key not in figures or figures[key] is None:
+        return np.full(nf, np.nan)
+    values = np.array([np.nan if v is None else v for v in figures[key]], dtype=float)
+    if values.shape != (nf,):
+        raise ValueError(f"models: figure {key!r} has {values.size} values, expected {nf}")
+    return values
+
+
+def _json_float(value):
+    value = float(value)
+    return value if np.isfinite(value) else None
+
+
+def comparison_block(frequencies, models, tolerances, fdtd_uncertainties=None, *,
+                     model_checked="closed_form", convergence=None):
+    """The ``comparison`` block of result.json (documented in :mod:`hornproof.compare.report.html`).
+
+    Parameters
+    ----------
+    frequencies : array_like [nf]
+        Band frequencies, Hz (written as GHz).
+    models : dict
+        ``{"closed_form": figures, "exact_phase": figures, "fdtd": figures}`` with figures as
+        in ``ModelResult.figures()`` (lists [nf], None = NaN). A missing model is all NaN.
+    tolerances : dict of str -> float
+        Metric name (a key of :data:`COMPARED_FIGURES`, e.g. ``"directivity_db"``) ->
+        tolerance in the metric's unit. Only these metrics are compared.
+    fdtd_uncertainties : dict of str -> array_like [nf], optional
+        Metric name -> absolute numerical uncertainty of the FDTD value (e.g. the GCI from
+        :mod:`hornproof.compare.numerics.convergence`); missing = unknown (NaN, verdict "unresolved").
+    model_checked : {"closed_form", "exact_phase"}
+        The analytic model the verdict is about; its difference to FDTD is judged.
+    convergence : dict, optional
+        Stored as is under ``"convergence"`` (see the report module docstring).
+
+    Returns
+    -------
+    dict
+        JSON-ready (NaN -> None).
+    """
+    if model_checked not in ("closed_form", "exact_phase"):
+        raise ValueError(f"model_checked: must be 'closed_form' or 'exact_phase', got {model_checked!r}")
+    f = np.atleast_1d(np.asarray(frequencies, dtype=float))
+    nf = f.size
+    fdtd_uncertainties = fdtd_uncertainties or {}
+    metrics = []
+    all_verdicts = []
+    for metric, tolerance in tolerances.items():
+        if metric not in COMPARED_FIGURES:
+            raise ValueError(f"tolerances: unknown metric {metric!r} (known: {sorted(COMPARED_FIGURES)})")
+        key, label, unit = COMPARED_FIGURES[metric]
+        # Realized gain: only FDTD has it; the analytic models are lossless and matched, so
+        # their directivity is their realized gain.
+        analytic_key = "directivity_dbi" if key == "realized_gain_dbi" else key
+        cf = _column(models.get("closed_form"), analytic_key, nf)
+        ep = _column(models.get("exact_phase"), analytic_key, nf)
+        fd = _column(models.get("fdtd"), key, nf)
+        u = np.broadcast_to(np.asarray(
+            [np.nan if v is None else v for v in np.atleast_1d(fdtd_uncertainties.get(metric, np.nan)).tolist()],
+            dtype=float), (nf,))
+        split = error_split(cf, ep, fd)
+        checked = cf if model_checked == "closed_form" else ep
+        difference = checked - fd
+        v = verdicts(difference, tolerance, u)
+        all_verdicts.extend(v)
+        rows = []
+        for i in range(nf):
+            rows.append({
+                "frequency_ghz": _json_float(f[i] / 1e9),
+                "closed_form": _json_float(cf[i]),
+                "exact_phase": _json_float(ep[i]),
+                "fdtd": _json_float(fd[i]),
+                "fdtd_uncertainty": _json_float(u[i]),
+                "difference": _json_float(difference[i]),
+                "phase_approximation_error": _json_float(split["phase_approximation_error"][i]),
+                "aperture_model_error": _json_float(split["aperture_model_error"][i]),
+                "total_error": _json_float(split["total_error"][i]),
+                "verdict": v[i],
+            })
+        metrics.append({"metric": metric, "label": label, "unit": unit,
+                        "tolerance": float(tolerance), "per_frequency": rows})
+    block = {"model_checked": model_checked, "reference": "fdtd", "metrics": metrics,
+             "overall": overall_verdict(all_verdicts)}
+    if convergence is not None:
+        block["convergence"] = convergence
+    return block

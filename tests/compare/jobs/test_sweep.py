@@ -1,0 +1,122 @@
+"""sweep: optimum flare of both analytic models, a smooth FDTD curve, resumable points.
+
+Outside references: the directivity of an H-plane sectoral horn peaks at a quadratic peak phase
+error S = A²/(8λR) ≈ 0.3965 wavelength at fixed apex distance (S. J. Orfanidis, *Electromagnetic
+Waves and Antennas*, horn chapter: σ_a ≈ 1.2593, S = σ²/4; the common rule A ≈ √(3λR) gives
+S = 3/8). At fixed *flare length* the apex distance R = L·A/(A − a) shrinks as A grows, so the
+optimum moves below 0.3965 by an amount that vanishes as a/A → 0 (see analytic/design.py).
+"""
+
+import os
+import signal
+import subprocess
+import sys
+import time
+from pathlib import Path
+
+import numpy as np
+import pytest
+
+from hornproof.compare.case.casefile import load_case
+from hornproof.compare.jobs.sweep import run_sweep
+
+ROOT = Path(__file__).resolve().parents[3]
+
+SWEEP_CASE = """\
+# Invented scenario for a test: a flare-angle sweep of an H-plane sectoral horn.
+format = 1
+title = "test sweep"
+[horn]
+type = "h-sectoral"
+waveguide = "WR-90"
+aperture_a_mm = {aperture}
+flare_length_mm = {length}
+[band]
+f_min_ghz = 10.0
+f_max_ghz = 10.0
+points = 1
+[fdtd]
+dims = 2
+cells_per_wavelength = [{cells}]
+[sweep]
+parameter = "flare_half_angle_h_deg"
+values = {values}
+dims = 2
+cells_per_wavelength = {cells}
+[checks]
+directivity_db = 0.5
+"""
+
+
+def _case(tmp_path, name="sweep.toml", aperture=60.0, length=60.0, values="[10, 20, 30]", cells=10):
+    path = tmp_path / name
+    path.write_text(SWEEP_CASE.format(aperture=aperture, length=length, values=values, cells=cells))
+    return load_case(path)
+
+
+def test_long_horn_optimum_is_the_published_phase_error(tmp_path):
+    # L = 2 m at 10 GHz: the optimum A is about 0.43 m, so a/A ≈ 0.05 and R ≈ 1.06 L.
+    case = _case(tmp_path, aperture=300.0, length=2000.0, values="[3, 4, 5, 6, 7, 8, 9, 10, 11, 12, 14]")
+    doc = run_sweep(case, tmp_path / "out", analytic_only=True, log=lambda m: None)
+    for model in ("closed_form", "exact_phase"):
+        best = doc["optimum"][model]
+        assert best["interior"], model
+        # Orfanidis' 0.3965 at fixed apex; the residual a/A effect here is below 0.02 (design.py)
+        assert best["phase_error_h_wl"] == pytest.approx(0.3965, abs=0.02), model
+
+
+def test_shipped_sweep_optimum_is_near_the_rule(tmp_path):
+    case = load_case(ROOT / "cases" / "sweep-h-flare.toml")
+    doc = run_sweep(case, tmp_path / "out", analytic_only=True, log=lambda m: None)
+    for model in ("closed_form", "exact_phase"):
+        s = doc["optimum"][model]["phase_error_h_wl"]
+        # a 60 mm horn on WR-90: a/A ≈ 0.27 at the optimum, which moves the optimum below
+        # 0.3965 (fixed-length effect); "near" = within 0.06 wavelength (hornproof's tolerance)
+        assert 0.3965 - 0.06 < s <= 0.3965 + 0.01, (model, s)
+    assert (tmp_path / "out" / "error_vs_parameter.png").is_file()
+    assert (tmp_path / "out" / "report.html").is_file()
+
+
+@pytest.mark.fullwave
+def test_fdtd_sweep_curve_is_smooth_and_follows_the_models(tmp_path):
+    case = _case(tmp_path, values="[12, 16, 20, 24, 28, 32]", cells=14)
+    doc = run_sweep(case, tmp_path / "out", ladder=[14], log=lambda m: None)
+    fd = np.array(doc["models"]["fdtd"], dtype=float)
+    ex = np.array(doc["models"]["exact_phase"], dtype=float)
+    assert np.all(np.isfinite(fd))
+    # smooth: the curvature of the FDTD curve is of the size of the model's, not noise
+    # (hornproof's criterion: second differences within the model's plus 0.25 dB)
+    assert np.max(np.abs(np.diff(fd, 2))) <= np.max(np.abs(np.diff(ex, 2))) + 0.25
+    # and it rises with the flare over this range, as both models do
+    assert np.all(np.diff(fd[:4]) > 0) and np.all(np.diff(ex[:4]) > 0)
+
+
+@pytest.mark.fullwave
+def test_killed_sweep_recomputes_nothing_finished(tmp_path):
+    case = _case(tmp_path, values="[10, 15, 20, 25]", cells=10)
+    out = tmp_path / "out"
+    env = dict(os.environ, MPLBACKEND="Agg")
+    proc = subprocess.Popen([sys.executable, "-m", "hornproof.compare.cli.main", "sweep", str(case.path),
+                             "--out", str(out), "--cells-per-wavelength", "10"],
+                            stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL, env=env, cwd=ROOT)
+    deadline = time.monotonic() + 240
+    points = out / "points"
+    while time.monotonic() < deadline:
+        if points.is_dir() and len(list(points.glob("*.json"))) >= 1:
+            break
+        if proc.poll() is not None:
+            break
+        time.sleep(0.05)
+    assert proc.poll() is None, "the sweep finished before it could be killed: make it longer"
+    proc.send_signal(signal.SIGTERM)
+    proc.wait(timeout=60)
+    assert proc.returncode == 143  # terminated, not finished
+    finished = len(list(points.glob("*.json")))
+    assert 1 <= finished < 4
+    assert not list(points.glob("*.tmp*")) and not list(points.glob(".*"))  # nothing half-written
+    doc = run_sweep(case, out, ladder=[10], log=lambda m: None)
+    assert doc["solver"]["points_reused"] == finished
+    assert doc["solver"]["points_computed"] == 4 - finished
+    again = run_sweep(case, out, ladder=[10], log=lambda m: None)
+    assert again["solver"]["points_computed"] == 0
+    assert again["models"]["fdtd"] == doc["models"]["fdtd"]

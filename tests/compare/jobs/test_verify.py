@@ -1,0 +1,99 @@
+"""verify end to end on small 2D cases (full-wave, a few seconds per grid).
+
+Outside references: the closed-form aperture theory of a long, gently flared horn is known to
+hold (peak phase error < 0.15 wavelength: the quadratic phase approximation is then accurate —
+"Pyramidal horn gain calculation with improved accuracy", IEEE AP-S International Symposium
+Digest, 1992, doi:10.1109/APS.1992.221722, abstract: agreement for S < 0.2), so the FDTD must agree with it
+within the case's tolerance; the phase-approximation error is by definition closed form minus
+exact phase, the number `predict` prints.
+"""
+
+import json
+from pathlib import Path
+
+import numpy as np
+import pytest
+
+from hornproof.compare.case.casefile import load_case
+from hornproof.compare.cli.main import main
+from hornproof.compare.cli.predict import predict_case
+from hornproof.compare.jobs.verify import verify_case
+from hornproof.errors import RunError
+
+ROOT = Path(__file__).resolve().parents[3]
+
+pytestmark = pytest.mark.fullwave
+
+
+def _metric(summary, name):
+    for metric in summary["comparison"]["metrics"]:
+        if metric["metric"] == name:
+            return metric
+    raise KeyError(name)
+
+
+def test_gentle_long_horn_agrees_in_directivity(tmp_path):
+    case = load_case(ROOT / "cases" / "gentle-long.toml")
+    summary = verify_case(case, tmp_path / "out")
+    rows = _metric(summary, "directivity_2d_db")["per_frequency"]
+    assert [r["verdict"] for r in rows] == ["agrees"] * len(rows)
+    # the FDTD figure comes with a numerical uncertainty from the ladder
+    assert all(r["fdtd_uncertainty"] is not None and r["fdtd_uncertainty"] >= 0 for r in rows)
+    out = tmp_path / "out"
+    for name in ("result.json", "fields.h5", "s11.s1p", "report.html", "pattern_h_plane.png",
+                 "directivity_vs_frequency.png", "convergence_ladder.png", "s11.png"):
+        assert (out / name).is_file(), name
+    stored = json.loads((out / "result.json").read_text())
+    assert stored["schema"] == "hornproof.result/1"
+    nf = len(stored["frequencies_ghz"])
+    for key, values in stored["models"]["fdtd"].items():
+        if isinstance(values, list):
+            assert len(values) == nf, key
+    assert stored["solver"]["meep"]
+    html = (out / "report.html").read_text()
+    assert "IEEE C95.1-2019" in html and "ICNIRP" in html
+    assert html.index("agrees") < html.index("<img")  # verdicts before the plots
+    assert not [p for p in tmp_path.iterdir() if p.name.startswith(".")]  # no staging left
+
+
+def test_short_wide_flare_reports_the_phase_approximation_error(tmp_path):
+    case = load_case(ROOT / "cases" / "short-wide-flare.toml").with_cells([12, 16])
+    summary = verify_case(case, tmp_path / "out")
+    predicted, _ = predict_case(case)
+    cf = np.array(predicted["models"]["closed_form"]["directivity_2d_db"])
+    ex = np.array(predicted["models"]["exact_phase"]["directivity_2d_db"])
+    rows = _metric(summary, "directivity_2d_db")["per_frequency"]
+    reported = np.array([r["phase_approximation_error"] for r in rows])
+    np.testing.assert_allclose(reported, cf - ex, atol=1e-9)
+    # S is about 1 wavelength here: the quadratic phase visibly under-predicts the directivity
+    assert np.all(reported < -0.3)
+
+
+def test_failed_check_exits_1(tmp_path):
+    # the closed form is far off for this short, wide horn (S about 1 wavelength): verify fails
+    case_path = tmp_path / "tight.toml"
+    text = (ROOT / "cases" / "short-wide-flare.toml").read_text()
+    text = text.replace('model = "exact_phase"', 'model = "closed_form"')
+    case_path.write_text(text)
+    code = main(["verify", str(case_path), "--cells-per-wavelength", "12,16", "--out", str(tmp_path / "o")])
+    assert code == 1
+
+
+def test_a_failing_run_leaves_no_result_folder(tmp_path, monkeypatch):
+    import hornproof.sim.run as run
+
+    calls = {"n": 0}
+    real = run.simulate
+
+    def flaky(*args, **kwargs):
+        calls["n"] += 1
+        if calls["n"] == 2:
+            raise RunError("the FDTD run diverged (simulated for the test)")
+        return real(*args, **kwargs)
+
+    monkeypatch.setattr(run, "simulate", flaky)
+    case = load_case(ROOT / "cases" / "demo-h-sectoral.toml").with_cells([10, 12])
+    with pytest.raises(RunError):
+        verify_case(case, tmp_path / "out")
+    assert not (tmp_path / "out").exists()
+    assert list(tmp_path.iterdir()) == []

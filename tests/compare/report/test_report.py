@@ -1,0 +1,168 @@
+"""Tests of the HTML report on synthetic result folders (invented numbers, written here).
+
+What is checked: the report is one self-contained file (no external http(s) references, figures
+embedded), the verdict table comes before the figures, the RF-exposure caution is there
+(IEEE C95.1-2019 and ICNIRP (2020), Health Physics 118 (2020) 483–524), text from the JSON is
+escaped, and an unknown schema is refused with a hint.
+"""
+
+import json
+import os
+import re
+
+import numpy as np
+import pytest
+
+from hornproof.compare.numerics import convergence, metrics, verdict
+from hornproof.compare.report import plots
+from hornproof.compare.report import html as report
+from hornproof.compare.output.safety import RF_EXPOSURE_CAUTION
+from hornproof.errors import InputError
+
+FREQS_GHZ = [9.5, 10.5, 11.5]
+
+
+def synthetic_result(tmp_path, title="Synthetic horn <test> & co"):
+    f = np.array(FREQS_GHZ) * 1e9
+    cf = [16.0, 16.8, 17.6]
+    ep = [15.8, 16.5, 17.3]
+    fd = [15.6, 16.4, 16.4]
+    cpw = [12, 16, 24]
+    # Ladder rows = grids (12, 16, 24 cells/λ), columns = frequencies. Worked by hand:
+    # 9.5 GHz: 15.4, 15.5, 15.6 — equal steps with r21 = 1.5, r32 = 1.333 is first order
+    #   (ε32/ε21 = r21 (r32 − 1)/(r21 − 1) = 1 at p = 1), GCI = 1.25·0.1/(1.5 − 1) = 0.25 dB;
+    #   d = 16.0 − 15.6 = 0.4 ≤ t + u with u ≤ t -> agrees.
+    # 10.5 GHz: 16.0, 16.9, 16.4 — up then down: oscillatory, spread bound 0.9 dB > t
+    #   -> unresolved (|d| − u = 0.4 − 0.9 < t).
+    # 11.5 GHz: 16.2, 16.3, 16.4 — first order again, u = 0.25; d = 17.6 − 16.4 = 1.2,
+    #   |d| − u = 0.95 > 0.5 -> disagrees.
+    ladder = np.array([[15.4, 16.0, 16.2], [15.5, 16.9, 16.3], [15.6, 16.4, 16.4]])
+    est = convergence.grid_convergence(ladder, cells_per_wavelength=cpw)
+    unc = [e.uncertainty for e in est]
+    comparison = verdict.comparison_block(
+        f, {"closed_form": {"directivity_dbi": cf}, "exact_phase": {"directivity_dbi": ep},
+            "fdtd": {"directivity_dbi": fd}},
+        {"directivity_db": 0.5}, {"directivity_db": unc},
+        convergence={"figure": "directivity_dbi", "unit": "dBi", "cells_per_wavelength": cpw,
+                     "values": ladder.tolist(), "estimates": [e.to_dict() for e in est]})
+    result = {
+        "schema": "hornproof.result/1", "case": "synthetic", "title": title,
+        "case_sha256": "0" * 64, "frequencies_ghz": FREQS_GHZ,
+        "geometry": {"apex_h_mm": 312.5, "flare_half_angle_h_deg": 14.2, "phase_error_h_wl": 0.31},
+        "models": {"closed_form": {"directivity_dbi": cf}, "exact_phase": {"directivity_dbi": ep},
+                   "fdtd": {"directivity_dbi": fd, "s11_db": [-15.0, -21.0, -18.0],
+                            "uncertainty": {"directivity_db": [None if not np.isfinite(u) else u for u in unc]}}},
+        "comparison": comparison,
+        "solver": {"meep": "1.25.0", "cells_per_wavelength": cpw, "seconds": 12.5},
+        "warnings": ["wall thickened to 2 cells <b>"],
+    }
+    # Extra blocks as verify writes them: pattern error (metrics.PatternError.to_dict()) and
+    # further checks. RMS 0.3 dB over the lobe is checked against a 0.5 dB limit with u 0.1.
+    theta = np.linspace(-30, 30, 61)
+    pe = metrics.pattern_error(theta, np.tile(-0.02 * theta**2 + 0.3, (3, 1)),
+                               np.tile(-0.02 * theta**2, (3, 1))).to_dict()
+    pe["uncertainty_db"] = [0.1, 0.1, 0.1]
+    comparison["pattern_error"] = {"window_db": -10.0, "planes": {"h_plane": {"closed_form": pe}}}
+    comparison["extra_checks"] = [{"check": "pattern_rms_h_plane", "frequency_index": 0,
+                                   "value": pe["rms_db"][0], "uncertainty": 0.1, "limit": 0.5,
+                                   "verdict": verdict.verdict(pe["rms_db"][0], 0.5, 0.1)}]
+    result["comparison"] = comparison
+    (tmp_path / "result.json").write_text(json.dumps(result))
+    theta = np.linspace(-90, 90, 181)
+    plots.plot_pattern_overlay(theta, 16 - 0.02 * theta**2, 15.8 - 0.02 * theta**2,
+                               15.6 - 0.021 * theta**2, tmp_path / "pattern_h_plane",
+                               fdtd_uncertainty_db=0.2, case_title=title)
+    return result
+
+
+def test_report_self_contained_verdicts_first_and_safety(tmp_path):
+    result = synthetic_result(tmp_path)
+    path = report.build_report(tmp_path)
+    text = open(path, encoding="utf-8").read()
+    assert os.stat(path).st_mode & 0o044 == 0o044  # readable by others
+    # No external references of any kind: no http(s) URL anywhere, no src/href to a file.
+    assert not re.search(r"https?://", text)
+    assert not re.search(r"(src|href)\s*=\s*['\"](?!data:)", text)
+    # The verdict table precedes the first figure.
+    assert 0 < text.index("id='verdicts'") < text.index("<img")
+    # Figures: the given one plus those drawn from result.json, all embedded.
+    assert text.count("data:image/png;base64,") == 4
+    assert text.index("alt='pattern h plane'") < text.index("alt='directivity vs frequency'")
+    # The ladder status of each frequency is shown beside its verdict.
+    assert "oscillatory (spread bound)" in text
+    # The safety caution and its two sources.
+    assert RF_EXPOSURE_CAUTION.replace("&", "&amp;") in text
+    assert "IEEE C95.1-2019" in text and "ICNIRP (2020)" in text
+    # Escaping: the title's markup characters are escaped, the warning's tag is not live.
+    assert "Synthetic horn &lt;test&gt; &amp; co" in text and "<b>" not in text
+    # The verdicts worked by hand in synthetic_result, in table order.
+    rows = result["comparison"]["metrics"][0]["per_frequency"]
+    assert [r["verdict"] for r in rows] == ["agrees", "unresolved", "disagrees"]
+    assert rows[0]["fdtd_uncertainty"] == pytest.approx(0.25)
+    table = text[text.index("id='verdicts'"):text.index("</table>")]
+    cells = re.findall(r"<td class='text verdict'>([^<]*)</td>", table)
+    assert cells == [report._VERDICT_TEXT[v] for v in ("agrees", "unresolved", "disagrees")]
+    assert "16.000" in table and "15.600 ± 0.250" in table
+    assert result["comparison"]["overall"] == "disagrees" and "DISAGREES" in text
+    # Pattern error and further checks precede the figures too; 0.3 dB offset -> RMS 0.300.
+    assert text.index("id='pattern-error'") < text.index("<img")
+    pattern = text[text.index("id='pattern-error'"):]
+    assert "<td>0.300</td>" in pattern[:pattern.index("</table>")]
+    extra = text[text.index("id='extra-checks'"):]
+    assert "agrees" in extra[:extra.index("</table>")]
+
+
+def test_report_refuses_unknown_schema(tmp_path):
+    (tmp_path / "result.json").write_text(json.dumps({"schema": "hornproof.result/2"}))
+    with pytest.raises(InputError, match="schema.*hornproof.result/1"):
+        report.build_report(tmp_path)
+    assert not (tmp_path / "report.html").exists()
+    (tmp_path / "result.json").write_text("{not json")
+    with pytest.raises(InputError, match="not valid JSON"):
+        report.build_report(tmp_path)
+
+
+def test_sweep_report(tmp_path):
+    angle = np.linspace(4.0, 30.0, 8)
+    phase = 0.002 * angle**2
+    aperture = 0.1 + 0.01 * angle
+    u = np.full(angle.shape, 0.1)
+    brk = {"phase_approximation": verdict.breakdown_threshold(angle, phase, 0.0, 0.5),
+           "aperture_model": verdict.breakdown_threshold(angle, aperture, u, 0.5)}
+    sweep = {
+        "schema": "hornproof.sweep/1", "case": "sweep-synthetic", "title": "Synthetic sweep",
+        "case_sha256": "1" * 64,
+        "parameter": {"name": "flare_half_angle_h_deg", "label": "H-plane flare half-angle",
+                      "unit": "deg", "values": angle.tolist()},
+        "frequency_ghz": 10.5, "figure": {"name": "directivity_dbi", "label": "Directivity", "unit": "dB"},
+        "tolerance": 0.5,
+        "models": {"closed_form": (16 + phase).tolist(), "exact_phase": [16.0] * 8,
+                   "fdtd": (16 - aperture).tolist()},
+        "fdtd_uncertainty": u.tolist(),
+        "errors": {"phase_approximation": phase.tolist(), "aperture_model": aperture.tolist(),
+                   "total": (phase + aperture).tolist()},
+        "uncertainties": {"phase_approximation": [0.0] * 8, "aperture_model": u.tolist()},
+        "breakdown": brk,
+    }
+    (tmp_path / "sweep.json").write_text(json.dumps(sweep))
+    text = open(report.build_sweep_report(tmp_path), encoding="utf-8").read()
+    assert not re.search(r"https?://", text)
+    assert text.index("id='breakdown'") < text.index("<img")
+    # Margins 0.002 θ² − 0.5 at the samples θ = 15.143 and 18.857 deg are −0.0414 and +0.2112:
+    # linear interpolation gives 15.143 + 0.0414/0.2526 · 3.714 = 15.75 deg (the smooth
+    # curve crosses at sqrt(250) = 15.81 deg).
+    assert brk["phase_approximation"] == pytest.approx(15.75, abs=0.01)
+    assert f"{brk['phase_approximation']:.3f} deg" in text
+    assert "none within the swept range" in text
+    assert "IEEE C95.1-2019" in text
+    (tmp_path / "sweep.json").write_text(json.dumps({**sweep, "schema": "hornproof.result/1"}))
+    with pytest.raises(InputError, match="hornproof.sweep/1"):
+        report.build_sweep_report(tmp_path)
+
+
+def test_number_formatting_in_tables():
+    # Typographic minus (Unicode U+2212), no negative zero, missing values as a dash.
+    assert report._number(-0.2) == "\u22120.200"
+    assert report._number(-0.0001) == "0.000"
+    assert report._number(None) == "—" and report._number(float("nan")) == "—"
+    assert report._value_text(20.0) == "20" and report._value_text(True) == "yes"
