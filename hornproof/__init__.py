@@ -1,7 +1,7 @@
 """hornproof: how far do closed-form rectangular-horn formulas hold for *your* horn?
 
 Packages: ``analytic`` (pure numpy/scipy models), ``sim`` (Meep FDTD), ``compare``
-(case files, metrics, verdicts, command line).
+(case files, numerics, jobs, regression, outputs, report, command line).
 """
 
-__version__ = "0.1.0"
+from .version import VERSION as __version__  # noqa: F401
