@@ -23,8 +23,8 @@ import numpy as np
 import pytest
 
 from hornproof.analytic.geometry import HornGeometry
-from hornproof.compare.case import casefile
 from hornproof.compare.case.casefile import load_case
+from hornproof.compare.case.horn_table import HORN_KEYS, geometry_key
 from hornproof.compare.case.sweepspec import SweepSpec
 from hornproof.errors import InputError
 
@@ -180,9 +180,9 @@ def test_failed_load_leaves_the_file_untouched(tmp_path):
 
 def test_every_geometry_field_maps_to_a_case_key():
     for field in dataclasses.fields(HornGeometry):
-        key = casefile._geometry_key(field.name, "horn.waveguide")
+        key = geometry_key(field.name, "horn.waveguide")
         assert key.startswith("horn.")
-        assert key.split(".", 1)[1] in casefile.HORN_KEYS
+        assert key.split(".", 1)[1] in HORN_KEYS
 
 
 # --- good files: values into SI ------------------------------------------------------------

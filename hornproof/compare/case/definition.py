@@ -1,0 +1,126 @@
+"""A parsed case definition (the TOML tables), validated into the fields of a ``Case``.
+
+The top level holds ``format`` and ``title`` and one table per idea; each table has its own
+reader module. A tier or a grid override is applied here, after every table is validated, and
+is part of the hashed definition.
+"""
+
+from ...hashing import content_sha256
+from ...sim.settings import FdtdSettings
+from .band_table import band_frequencies, check_band_against_guide, guide_warnings, read_band
+from .checks_table import read_checks
+from .fdtd_table import grid_warnings, read_fdtd
+from .horn_table import read_horn
+from .sweep_table import read_sweep
+from .tiers_table import read_tiers
+from .values import CaseProblem, check_keys, describe_value, input_error, read_table
+
+#: The case-file format this package reads.
+FORMAT_VERSION = 1
+
+TOP_KEYS = ("format", "title", "horn", "band", "fdtd", "checks", "sweep", "tiers")
+
+
+def case_fields(path, raw, *, tier=None, cells_override=None):
+    """Keyword arguments of ``Case`` for the parsed definition ``raw`` of the file ``path``.
+
+    Raises
+    ------
+    InputError
+        One line, ``"<file>: <dotted.key>: <reason>"``, for the first problem found.
+    """
+    try:
+        return _validated_fields(path, raw, tier, cells_override)
+    except CaseProblem as problem:
+        raise input_error(path, problem) from None
+
+
+def definition_sha256(definition):
+    """Hex SHA-256 of the canonical JSON of a parsed definition (sorted keys, no spaces).
+
+    Comments and layout vanish in parsing, so they do not change the hash; every value does
+    (an integer ``12`` and a float ``12.0`` are different values in TOML and hash differently).
+    """
+    return content_sha256(definition)
+
+
+def _validated_fields(path, raw, tier, cells_override):
+    _check_format(raw)
+    check_keys(raw, TOP_KEYS, "")
+    title = _read_title(raw, path.stem)
+    horn = read_horn(read_table(raw, "horn", required=True))
+    band = read_band(read_table(raw, "band", required=True), "band")
+    check_band_against_guide(band, horn)
+    fdtd_fields, quick_2d = read_fdtd(read_table(raw, "fdtd", required=False), horn)
+    checks, check_model = read_checks(read_table(raw, "checks", required=False))
+    sweep = read_sweep(read_table(raw, "sweep", required=False), horn, fdtd_fields)
+    tiers = read_tiers(read_table(raw, "tiers", required=False), horn, band, fdtd_fields,
+                       quick_2d)
+
+    if tier is not None:
+        overrides = tiers[tier]
+        if "points" in overrides:
+            band = dict(band, points=overrides["points"])
+        for key in ("dims", "cells_per_wavelength"):
+            if key in overrides:
+                fdtd_fields[key] = overrides[key]
+    if cells_override is not None:
+        fdtd_fields["cells_per_wavelength"] = tuple(cells_override)
+
+    frequencies = band_frequencies(band)
+    frequencies.setflags(write=False)
+    fdtd = FdtdSettings(**fdtd_fields)
+
+    warnings = [f"{path}: {key}: {reason}" for key, reason in
+                guide_warnings(band, frequencies, horn)
+                + grid_warnings(horn, frequencies, fdtd.dims, fdtd.cells_per_wavelength,
+                                _cells_key(tier, cells_override))
+                + (grid_warnings(horn, frequencies, sweep.dims, (sweep.cells_per_wavelength,),
+                                 "sweep.cells_per_wavelength") if sweep else [])]
+
+    if tier is None and cells_override is None:
+        sha256 = definition_sha256(raw)
+    else:
+        sha256 = definition_sha256({"case": raw, "tier": tier,
+                                    "cells_per_wavelength": list(cells_override)
+                                    if cells_override is not None else None})
+    return dict(path=path, name=path.stem, title=title, horn=horn, frequencies=frequencies,
+                fdtd=fdtd, checks=checks, check_model=check_model, sweep=sweep, tiers=tiers,
+                sha256=sha256, warnings=tuple(dict.fromkeys(warnings)), raw=raw, tier=tier,
+                cells_override=tuple(cells_override) if cells_override is not None else None)
+
+
+def _cells_key(tier, cells_override):
+    """Key named in grid warnings: where the ladder in force came from."""
+    if cells_override is not None:
+        return "cells_per_wavelength override"
+    if tier is not None:
+        return f"tiers.{tier}.cells_per_wavelength"
+    return "fdtd.cells_per_wavelength"
+
+
+def _check_format(raw):
+    if "format" not in raw:
+        raise CaseProblem("format", f"missing required key; this hornproof reads format "
+                                    f"{FORMAT_VERSION} (add the line: format = {FORMAT_VERSION})")
+    value = raw["format"]
+    if isinstance(value, bool) or not isinstance(value, int):
+        raise CaseProblem("format", f"must be the integer {FORMAT_VERSION}, "
+                                    f"got {describe_value(value)}; "
+                                    f"this hornproof reads format {FORMAT_VERSION}")
+    if value != FORMAT_VERSION:
+        raise CaseProblem("format", f"unsupported format {value}; this hornproof reads format "
+                                    f"{FORMAT_VERSION}")
+
+
+def _read_title(raw, default):
+    if "title" not in raw:
+        return default
+    value = raw["title"]
+    if not isinstance(value, str):
+        raise CaseProblem("title", f"must be a string, got {describe_value(value)}")
+    if not value.strip():
+        raise CaseProblem("title", "is empty")
+    if "\n" in value or "\r" in value:
+        raise CaseProblem("title", "must be one line")
+    return value.strip()
