@@ -13,14 +13,38 @@ from dataclasses import dataclass
 
 from ...units import MM
 
-#: Sweep parameter -> (unit shown to the user, what it holds fixed).
+
+@dataclass(frozen=True)
+class SweptParameter:
+    """A horn parameter a sweep may step: how people read it and what stepping it keeps.
+
+    Attributes
+    ----------
+    label : str
+        Trade words for tables, plots and ``sweep.json``.
+    unit : str
+        The edge unit its values are written in: ``"deg"`` or ``"mm"``.
+    held_fixed : str
+        What the sweep keeps while stepping it, in words.
+    """
+
+    label: str
+    unit: str
+    held_fixed: str
+
+
+#: Sweep parameter (its ``[sweep]`` name) -> what it is: the one table of sweep parameters.
 SWEEP_PARAMETERS = {
-    "flare_half_angle_h_deg": ("deg", "flare length"),
-    "flare_half_angle_e_deg": ("deg", "flare length"),
-    "aperture_a_mm": ("mm", "flare length"),
-    "aperture_b_mm": ("mm", "flare length"),
-    "flare_length_mm": ("mm", "flare half-angles"),
+    "flare_half_angle_h_deg": SweptParameter("H-plane flare half-angle", "deg", "flare length"),
+    "flare_half_angle_e_deg": SweptParameter("E-plane flare half-angle", "deg", "flare length"),
+    "aperture_a_mm": SweptParameter("Aperture width A", "mm", "flare length"),
+    "aperture_b_mm": SweptParameter("Aperture height B", "mm", "flare length"),
+    "flare_length_mm": SweptParameter("Flare length", "mm", "flare half-angles"),
 }
+
+#: Sweep parameter -> (label, unit), as ``sweep.json`` records them.
+PARAMETER_LABELS = {name: (parameter.label, parameter.unit)
+                    for name, parameter in SWEEP_PARAMETERS.items()}
 
 #: Largest flare half-angle still called a horn (the limit of ``validate_geometry``), degrees.
 MAX_FLARE_HALF_ANGLE_DEG = 80.0

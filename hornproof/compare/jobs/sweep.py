@@ -26,18 +26,11 @@ import numpy as np
 from ... import __version__
 from ...errors import InputError
 from ..case.casefile import load_case
+from ..case.sweepspec import PARAMETER_LABELS
 from ..output.folders import check_output_folder
 from ..output.summary import SAFETY_NOTE, dumps, emit_result, jsonable, safety_lines
 
 SCHEMA = "hornproof.sweep/1"
-
-PARAMETER_LABELS = {
-    "flare_half_angle_h_deg": ("H-plane flare half-angle", "deg"),
-    "flare_half_angle_e_deg": ("E-plane flare half-angle", "deg"),
-    "aperture_a_mm": ("Aperture width A", "mm"),
-    "aperture_b_mm": ("Aperture height B", "mm"),
-    "flare_length_mm": ("Flare length", "mm"),
-}
 
 #: default grids of a sweep point, relative to the case's sweep.cells_per_wavelength: three
 #: grids give a GCI with an observed order (Celik et al. 2008); two grids force the assumed

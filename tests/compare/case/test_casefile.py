@@ -25,7 +25,7 @@ import pytest
 from hornproof.analytic.geometry import HornGeometry
 from hornproof.compare.case.casefile import load_case
 from hornproof.compare.case.horn_table import HORN_KEYS, geometry_key
-from hornproof.compare.case.sweepspec import SweepSpec
+from hornproof.compare.case.sweepspec import PARAMETER_LABELS, SWEEP_PARAMETERS, SweepSpec
 from hornproof.errors import InputError
 
 HERE = Path(__file__).parent
@@ -438,6 +438,24 @@ def test_sweepspec_names_parameter_and_value():
     with pytest.raises(ValueError, match=r"^aperture_a_mm = 10: .*smaller than the guide"):
         SweepSpec("aperture_a_mm", (10.0, 50.0), 2, 12.0).horns(horn)
 
+
+
+@pytest.mark.parametrize("parameter", sorted(SWEEP_PARAMETERS))
+def test_sweep_parameter_table_says_what_horn_at_does(parameter):
+    described = SWEEP_PARAMETERS[parameter]
+    # the unit shown to people is the unit the [sweep] name carries
+    assert parameter.endswith("_" + described.unit)
+    assert PARAMETER_LABELS[parameter] == (described.label, described.unit)
+    base = HornGeometry("pyramidal", 0.02286, 0.01016, 0.09, 0.07, 0.16)
+    value = 25.0 if described.unit == "deg" else 120.0
+    swept = SweepSpec(parameter, (value, value + 5.0), 3, 12.0).horn_at(base, value)
+    if described.held_fixed == "flare length":
+        assert swept.flare_length == base.flare_length
+    else:
+        assert described.held_fixed == "flare half-angles"
+        assert swept.flare_length != base.flare_length
+        assert swept.flare_half_angle_h == pytest.approx(base.flare_half_angle_h, rel=1e-12)
+        assert swept.flare_half_angle_e == pytest.approx(base.flare_half_angle_e, rel=1e-12)
 
 # --- the shipped cases ---------------------------------------------------------------------
 
