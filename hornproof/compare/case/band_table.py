@@ -7,7 +7,11 @@ near cutoff, or reaching a higher guide mode, draws a warning.
 
 import numpy as np
 
-from ...analytic.waveguide import te01_cutoff_frequency, te10_cutoff_frequency, te20_cutoff_frequency
+from ...analytic.waveguide import (
+    te01_cutoff_frequency,
+    te10_cutoff_frequency,
+    te20_cutoff_frequency,
+)
 from ...limits import MAX_BAND_POINTS, NEAR_CUTOFF_FRACTION
 from ...units import GHZ, MM
 from .values import CaseProblem, check_keys, read_integer, read_number_list, read_positive

@@ -45,6 +45,8 @@ def definition_sha256(definition):
 
 
 def _validated_fields(path, raw, tier, cells_override):
+    """Every table read in file order (the first problem met is the one reported), then the
+    tier and grid override applied, the band sampled and the warnings gathered."""
     _check_format(raw)
     check_keys(raw, TOP_KEYS, "")
     title = _read_title(raw, path.stem)
@@ -77,17 +79,20 @@ def _validated_fields(path, raw, tier, cells_override):
                                 _cells_key(tier, cells_override))
                 + (grid_warnings(horn, frequencies, sweep.dims, (sweep.cells_per_wavelength,),
                                  "sweep.cells_per_wavelength") if sweep else [])]
-
-    if tier is None and cells_override is None:
-        sha256 = definition_sha256(raw)
-    else:
-        sha256 = definition_sha256({"case": raw, "tier": tier,
-                                    "cells_per_wavelength": list(cells_override)
-                                    if cells_override is not None else None})
     return dict(path=path, name=path.stem, title=title, horn=horn, frequencies=frequencies,
                 fdtd=fdtd, checks=checks, check_model=check_model, sweep=sweep, tiers=tiers,
-                sha256=sha256, warnings=tuple(dict.fromkeys(warnings)), raw=raw, tier=tier,
+                sha256=_variant_sha256(raw, tier, cells_override),
+                warnings=tuple(dict.fromkeys(warnings)), raw=raw, tier=tier,
                 cells_override=tuple(cells_override) if cells_override is not None else None)
+
+
+def _variant_sha256(raw, tier, cells_override):
+    """Hash of the case as written, or of the definition with its tier and grid override."""
+    if tier is None and cells_override is None:
+        return definition_sha256(raw)
+    return definition_sha256({"case": raw, "tier": tier,
+                              "cells_per_wavelength": list(cells_override)
+                              if cells_override is not None else None})
 
 
 def _cells_key(tier, cells_override):
