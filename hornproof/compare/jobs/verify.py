@@ -429,11 +429,14 @@ def verify_case(case, out_dir=None, *, force=False, ladder=None, progress=None):
 def _model_image(case, cells_per_wavelength, out_dir):
     """model.png of the finest grid. Every MPI rank takes part (Meep's arrays are collective);
     the master writes it beside the result folder, and ``_publish`` moves it in."""
-    from ...sim.model import model_image
+    from ...sim.metal_map import metal_cuts
+    from ..report.model_image import model_image
 
     out_dir.parent.mkdir(parents=True, exist_ok=True)
     path = out_dir.parent / f".{out_dir.name}.model.png"
-    model_image(case.horn, case.fdtd, cells_per_wavelength, path, frequencies=case.frequencies)
+    layout, cuts = metal_cuts(case.horn, case.fdtd, cells_per_wavelength, frequencies=case.frequencies)
+    if _is_master():
+        model_image(layout, cuts, path)
     return path
 
 

@@ -2,8 +2,8 @@
 
 Every function takes plain arrays, draws one figure with matplotlib's object API (no pyplot, no
 global state; the Agg renderer), and writes it twice, as ``<path_stem>.png`` and
-``<path_stem>.svg``, each first under a temporary name in the same directory and then renamed
-(``os.replace``), so a crash never leaves a half-written image. Each returns the two paths.
+``<path_stem>.svg``, each through :func:`hornproof.atomic.atomic_path` (temporary name in the
+same directory, then renamed), so a crash never leaves a half-written image. Each returns the two paths.
 
 Inputs are SI except where the trade's convention is stored already in edge units: frequencies
 in Hz (shown in GHz), pattern angles and flare angles in degrees (as ``ModelResult`` stores
@@ -18,11 +18,11 @@ The standard file stems that :mod:`hornproof.compare.report.html` looks for are 
 """
 
 import os
-import tempfile
 
 import numpy as np
 from matplotlib.figure import Figure
 
+from ...atomic import atomic_path
 from ...units import GHZ
 
 #: One colour per model, used in every figure.
@@ -83,17 +83,9 @@ def save_figure(fig, path_stem):
     written = []
     for fmt in ("png", "svg"):
         final = f"{path_stem}.{fmt}"
-        handle, temporary = tempfile.mkstemp(prefix=".tmp-", suffix=f".{fmt}", dir=directory)
-        os.close(handle)
-        try:
-            metadata = {"Date": None} if fmt == "svg" else None
+        metadata = {"Date": None} if fmt == "svg" else None  # reproducible SVG bytes
+        with atomic_path(final) as temporary:
             fig.savefig(temporary, format=fmt, bbox_inches="tight", metadata=metadata)
-            os.chmod(temporary, 0o644)  # mkstemp makes 0600; figures are meant to be shared
-            os.replace(temporary, final)
-        except BaseException:
-            if os.path.exists(temporary):
-                os.remove(temporary)
-            raise
         written.append(final)
     return tuple(written)
 
