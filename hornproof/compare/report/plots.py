@@ -258,6 +258,16 @@ def _estimate_field(estimate, name):
     return float("nan") if value is None else float(value)
 
 
+def ladder_draws_extrapolation(estimate):
+    """True when :func:`plot_convergence_ladder` draws the Richardson-extrapolated value for
+    ``estimate`` (a finite value from a ladder that is neither oscillatory nor divergent)."""
+    if estimate is None:
+        return False
+    status = estimate.get("status") if isinstance(estimate, dict) else estimate.status
+    return bool(np.isfinite(_estimate_field(estimate, "extrapolated_value"))
+                and status not in ("oscillatory", "divergent"))
+
+
 def plot_convergence_ladder(cells_per_wavelength, values, path_stem, *, estimate=None,
                             quantity="Directivity", unit="dBi", frequency=None, case_title=""):
     """A convergence ladder against cell size, with the extrapolated value and GCI band.
@@ -313,7 +323,7 @@ def plot_convergence_ladder(cells_per_wavelength, values, path_stem, *, estimate
                           else "Bound from the ladder spread (±), not an error estimate")
             ax.fill_between([0.0, h[0]], [fine - u] * 2, [fine + u] * 2, color=colour, alpha=0.16,
                             linewidth=0, label=band_label)
-        if np.isfinite(ext) and status not in ("oscillatory", "divergent"):
+        if ladder_draws_extrapolation(estimate):
             ax.plot([0.0, h[0]], [ext, phi[0]], ":", color=MODEL_COLOURS["exact_phase"], linewidth=1.2)
             ax.plot([0.0], [ext], marker="*", markersize=12, color=MODEL_COLOURS["exact_phase"],
                     linestyle="none",
@@ -345,27 +355,29 @@ def plot_convergence_ladder(cells_per_wavelength, values, path_stem, *, estimate
 
 
 def plot_error_vs_parameter(parameter_values, phase_approximation_error, aperture_model_error,
-                            path_stem, *, phase_approximation_uncertainty=0.0,
-                            aperture_model_uncertainty=None, tolerance=None, breakdown=None,
-                            parameter_label="Flare half-angle", parameter_unit="deg",
+                            path_stem, *, total_error=None, phase_approximation_uncertainty=0.0,
+                            aperture_model_uncertainty=None, total_uncertainty=None, tolerance=None,
+                            breakdown=None, parameter_label="Flare half-angle", parameter_unit="deg",
                             error_label="Directivity error", error_unit="dB", case_title=""):
-    """Magnitude of the two model errors over a sweep, with bands, tolerance and breakdown.
+    """Magnitude of the model errors over a sweep, with bands, tolerance and breakdown.
 
     Parameters
     ----------
     parameter_values : array_like [n]
         Swept parameter, in ``parameter_unit`` (default: flare half-angle in degrees).
-    phase_approximation_error, aperture_model_error : array_like [n] or None
-        Closed form − exact phase, and exact phase − FDTD, figure units; |error| is drawn.
+    phase_approximation_error, aperture_model_error, total_error : array_like [n] or None
+        Closed form − exact phase, exact phase − FDTD and closed form − FDTD, figure units;
+        |error| is drawn. None omits a curve.
     path_stem : str
-    phase_approximation_uncertainty, aperture_model_uncertainty : float or array_like [n]
+    phase_approximation_uncertainty, aperture_model_uncertainty, total_uncertainty : float or array_like [n]
         Numerical uncertainty of each error (band ±, clipped at 0).
     tolerance : float, optional
         Accepted |error|, drawn as a horizontal line.
     breakdown : dict, optional
-        ``{"phase_approximation": value, "aperture_model": value}`` from
-        :func:`hornproof.compare.numerics.verdict.breakdown_threshold`; a number draws a labelled
-        vertical line, ``None`` / ``"below range"`` are written in the legend.
+        ``{"phase_approximation": value, "aperture_model": value, "total": value}`` from
+        :func:`hornproof.compare.numerics.verdict.breakdown_threshold`; a number draws a vertical
+        line (its value in the legend, one decimal), ``None`` / ``"below range"`` are written in
+        the legend.
     parameter_label, parameter_unit, error_label, error_unit, case_title : str
 
     Returns
@@ -377,33 +389,32 @@ def plot_error_vs_parameter(parameter_values, phase_approximation_error, apertur
         raise ValueError("parameter_values: must be a non-empty 1-D array")
     order = np.argsort(x)
     x = x[order]
-    fig, ax = _new_figure()
+    fig, ax = _new_figure(height=4.8)
     series = (
-        ("phase_approximation", phase_approximation_error, phase_approximation_uncertainty,
-         "closed_form", "Phase-approximation error |closed form − exact phase|"),
-        ("aperture_model", aperture_model_error, aperture_model_uncertainty,
-         "fdtd", "Aperture-model error |exact phase − FDTD|"),
+        ("phase_approximation", phase_approximation_error, phase_approximation_uncertainty, "closed_form",
+         "Phase-approximation error |closed form − exact phase|", "phase approximation"),
+        ("aperture_model", aperture_model_error, aperture_model_uncertainty, "fdtd",
+         "Aperture-model error |exact phase − FDTD|", "aperture model"),
+        ("total", total_error, total_uncertainty, "exact_phase",
+         "Total error |closed form − FDTD|", "total"),
     )
     breakdown = breakdown or {}
-    for key, err, unc, colour_key, label in series:
+    for key, err, unc, colour_key, label, name in series:
         if err is None:
             continue
-        name = "phase approximation" if key == "phase_approximation" else "aperture model"
         e = np.abs(_finite(err, key + "_error", order.shape))[order]
         colour = MODEL_COLOURS[colour_key]
-        ax.plot(x, e, "-o", color=colour, markersize=4, linewidth=1.5, label=label)
+        style = ":" if key == "total" else "-"
+        ax.plot(x, e, style, marker="o", color=colour, markersize=4, linewidth=1.5, label=label)
         if unc is not None:
             u = np.broadcast_to(np.asarray(unc, dtype=float), order.shape)[order]
             if np.any(u > 0):
-                ax.fill_between(x, np.clip(e - u, 0, None), e + u, color=colour, alpha=0.16,
+                ax.fill_between(x, np.clip(e - u, 0, None), e + u, color=colour, alpha=0.12,
                                 linewidth=0, label=label.split(" |")[0] + ": numerical uncertainty (±)")
         where = breakdown.get(key)
         if isinstance(where, (int, float)) and np.isfinite(where):
-            ax.axvline(where, color=colour, linestyle=":", linewidth=1.6,
-                       label=f"Breakdown of the {name}: {where:.3g} {parameter_unit}")
-            ax.annotate(f"{where:.3g} {parameter_unit}", xy=(where, 1.0),
-                        xycoords=("data", "axes fraction"), xytext=(3, -12),
-                        textcoords="offset points", color=colour, fontsize=8.5)
+            ax.axvline(where, color=colour, linestyle=(0, (1, 2)), linewidth=1.6,
+                       label=f"Breakdown of the {name}: {where:.1f} {parameter_unit}")
         elif key in breakdown:
             text = "beyond tolerance from the first value" if where == "below range" else "none in range"
             ax.plot([], [], " ", label=f"Breakdown of the {name}: {text}")
@@ -414,7 +425,7 @@ def plot_error_vs_parameter(parameter_values, phase_approximation_error, apertur
     ax.set_xlabel(f"{parameter_label} ({parameter_unit})")
     ax.set_ylabel(f"|{error_label}| ({error_unit})")
     _title(ax, case_title, f"Model error against {_lower_first(parameter_label)}")
-    _legend(ax)
+    _legend(ax, ncol=1)
     return save_figure(fig, path_stem)
 
 

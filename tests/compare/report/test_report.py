@@ -15,7 +15,9 @@ import pytest
 
 from hornproof.compare.numerics import convergence, metrics, verdict
 from hornproof.compare.report import plots
+from hornproof.compare.report import format as report_format
 from hornproof.compare.report import html as report
+from hornproof.compare.report.verify_page import VERDICT_TEXT
 from hornproof.compare.output.safety import RF_EXPOSURE_CAUTION
 from hornproof.errors import InputError
 
@@ -101,7 +103,7 @@ def test_report_self_contained_verdicts_first_and_safety(tmp_path):
     assert rows[0]["fdtd_uncertainty"] == pytest.approx(0.25)
     table = text[text.index("id='verdicts'"):text.index("</table>")]
     cells = re.findall(r"<td class='text verdict'>([^<]*)</td>", table)
-    assert cells == [report._VERDICT_TEXT[v] for v in ("agrees", "unresolved", "disagrees")]
+    assert cells == [VERDICT_TEXT[v] for v in ("agrees", "unresolved", "disagrees")]
     assert "16.000" in table and "15.600 ± 0.250" in table
     assert result["comparison"]["overall"] == "disagrees" and "DISAGREES" in text
     # Pattern error and further checks precede the figures too; 0.3 dB offset -> RMS 0.300.
@@ -152,7 +154,9 @@ def test_sweep_report(tmp_path):
     # linear interpolation gives 15.143 + 0.0414/0.2526 · 3.714 = 15.75 deg (the smooth
     # curve crosses at sqrt(250) = 15.81 deg).
     assert brk["phase_approximation"] == pytest.approx(15.75, abs=0.01)
-    assert f"{brk['phase_approximation']:.3f} deg" in text
+    # Shown to one decimal: the swept values are 3.7 deg apart.
+    assert f"{brk['phase_approximation']:.1f} deg" in text
+    assert f"{brk['phase_approximation']:.3f}" not in text
     assert "none within the swept range" in text
     assert "IEEE C95.1-2019" in text
     (tmp_path / "sweep.json").write_text(json.dumps({**sweep, "schema": "hornproof.result/1"}))
@@ -161,8 +165,8 @@ def test_sweep_report(tmp_path):
 
 
 def test_number_formatting_in_tables():
-    # Typographic minus (Unicode U+2212), no negative zero, missing values as a dash.
-    assert report._number(-0.2) == "\u22120.200"
-    assert report._number(-0.0001) == "0.000"
-    assert report._number(None) == "—" and report._number(float("nan")) == "—"
-    assert report._value_text(20.0) == "20" and report._value_text(True) == "yes"
+    # Typographic minus (Unicode U+2212), no negative zero, missing values as one word.
+    assert report_format.number(-0.2) == "\u22120.200"
+    assert report_format.number(-0.0001) == "0.000"
+    assert report_format.number(None) == "n/a" and report_format.number(float("nan")) == "n/a"
+    assert report_format.value_text(20.0) == "20" and report_format.value_text(True) == "yes"
