@@ -28,6 +28,7 @@ from ...errors import InputError
 from ..case.casefile import load_case
 from ..output.folders import check_output_folder
 from ..output.summary import SAFETY_NOTE, dumps, emit_result, jsonable, safety_lines
+from ..report.format import MISSING_VALUE
 
 SCHEMA = "hornproof.sweep/1"
 
@@ -273,8 +274,9 @@ def _plot_sweep(folder, document):
 
     plots.plot_error_vs_parameter(
         arr(p["values"]), arr(errors["phase_approximation"]), arr(errors["aperture_model"]),
-        folder / "error_vs_parameter", phase_approximation_uncertainty=0.0,
-        aperture_model_uncertainty=arr(unc["aperture_model"]), tolerance=document["tolerance"],
+        folder / "error_vs_parameter", total_error=arr(errors.get("total")), phase_approximation_uncertainty=0.0,
+        aperture_model_uncertainty=arr(unc["aperture_model"]), total_uncertainty=arr(unc.get("total")),
+        tolerance=document["tolerance"],
         breakdown=document["breakdown"], parameter_label=p["label"], parameter_unit=p["unit"],
         error_label=f"{document['figure']['label']} error", error_unit="dB",
         case_title=f"{document['title']} — at {document['frequency_ghz']:.3g} GHz")
@@ -321,7 +323,7 @@ def format_sweep(document):
              f"{'phase err':>9} {'aperture err':>12}"]
 
     def f(v, w=8, d=2):
-        return "-".rjust(w) if v is None else f"{v:{w}.{d}f}"
+        return MISSING_VALUE.rjust(w) if v is None else f"{v:{w}.{d}f}"
 
     fd = document["models"]["fdtd"] or [None] * len(p["values"])
     u = document["fdtd_uncertainty"] or [None] * len(p["values"])

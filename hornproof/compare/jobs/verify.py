@@ -19,6 +19,7 @@ from ..case.casefile import load_case
 from ..output.folders import check_output_folder, publish_folder
 from ..cli.predict import predict_case
 from ..output.summary import dumps, emit_result, jsonable, safety_lines
+from ..report.format import MISSING_VALUE
 
 #: case-file check name -> comparison metrics it applies to (verdict.COMPARED_FIGURES keys)
 CHECK_METRICS = {
@@ -463,7 +464,7 @@ def format_verdicts(summary):
              f"  {'metric':<24} {'f GHz':>7} {'closed':>8} {'exact':>8} {'FDTD':>8} {'+-':>6} {'diff':>7} {'tol':>5}  verdict"]
 
     def fmt(v, w=8, d=2):
-        return "-".rjust(w) if v is None else f"{v:{w}.{d}f}"
+        return MISSING_VALUE.rjust(w) if v is None else f"{v:{w}.{d}f}"
 
     for metric in comparison["metrics"]:
         for row in metric["per_frequency"]:

@@ -51,6 +51,7 @@ QUANTITY_NAMES = {
     "timesteps": "Time steps, per grid",
     "seconds_per_grid": "Run time, per grid",
     "seconds": "Run time, total",
+    "seconds_per_point": "Run time, per swept value",
     "decay_by": "Stop when the DFT fields have decayed by (relative)",
     "pml_wavelengths": "PML thickness (wavelengths at f_min)",
     "padding_wavelengths": "Space around the horn (wavelengths at f_max)",
@@ -63,7 +64,7 @@ SIZE_SYMBOLS = {"guide_a_mm": "a", "guide_b_mm": "b", "aperture_a_mm": "A", "ape
 #: keys whose value is a ratio shown in per cent
 PERCENT_KEYS = frozenset({"max_power_balance_error"})
 #: keys in seconds without a suffix
-SECOND_KEYS = frozenset({"seconds", "seconds_per_grid"})
+SECOND_KEYS = frozenset({"seconds", "seconds_per_grid", "seconds_per_point"})
 
 #: extra-check names written by verify -> what the table shows
 CHECK_NAMES = {"s11_db": "S11", "pattern_rms_h_plane": "Main-lobe pattern RMS error, H-plane",
@@ -149,6 +150,8 @@ def value_text(value, decimals=3):
             return MISSING_VALUE
         if value == int(value) and abs(value) < 1e6:
             return number(value, 0)
+        if abs(value) < 10.0 ** -decimals:
+            return f"{value:.3g}".replace("-", "\u2212")  # small ratios such as a decay of 1e-4
         return number(value, decimals)
     if isinstance(value, (list, tuple)):
         separator = " · " if any(isinstance(v, dict) for v in value) else ", "

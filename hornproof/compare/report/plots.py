@@ -39,6 +39,7 @@ MODEL_LABELS = {
 }
 MODEL_LINESTYLES = {"closed_form": "--", "exact_phase": "-.", "fdtd": "-"}
 TOLERANCE_COLOUR = "#7a7a7a"
+TOTAL_ERROR_COLOUR = "#3b3b3b"  # the total error is no model's: a neutral dark grey
 GRID_COLOUR = "#e2e2e2"
 
 #: File stems (without extension) in the order the HTML report shows them.
@@ -395,7 +396,7 @@ def plot_error_vs_parameter(parameter_values, phase_approximation_error, apertur
          "Phase-approximation error |closed form − exact phase|", "phase approximation"),
         ("aperture_model", aperture_model_error, aperture_model_uncertainty, "fdtd",
          "Aperture-model error |exact phase − FDTD|", "aperture model"),
-        ("total", total_error, total_uncertainty, "exact_phase",
+        ("total", total_error, total_uncertainty, "total",
          "Total error |closed form − FDTD|", "total"),
     )
     breakdown = breakdown or {}
@@ -403,7 +404,7 @@ def plot_error_vs_parameter(parameter_values, phase_approximation_error, apertur
         if err is None:
             continue
         e = np.abs(_finite(err, key + "_error", order.shape))[order]
-        colour = MODEL_COLOURS[colour_key]
+        colour = TOTAL_ERROR_COLOUR if colour_key == "total" else MODEL_COLOURS[colour_key]
         style = ":" if key == "total" else "-"
         ax.plot(x, e, style, marker="o", color=colour, markersize=4, linewidth=1.5, label=label)
         if unc is not None:

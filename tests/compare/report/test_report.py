@@ -170,3 +170,36 @@ def test_number_formatting_in_tables():
     assert report_format.number(-0.0001) == "0.000"
     assert report_format.number(None) == "n/a" and report_format.number(float("nan")) == "n/a"
     assert report_format.value_text(20.0) == "20" and report_format.value_text(True) == "yes"
+
+
+def test_autoescape_of_a_script_title(tmp_path):
+    synthetic_result(tmp_path, title="<script>alert(1)</script> horn")
+    text = open(report.build_report(tmp_path), encoding="utf-8").read()
+    assert "<script" not in text
+    assert "&lt;script&gt;alert(1)&lt;/script&gt; horn" in text
+
+
+def test_trade_words_and_one_missing_value_word(tmp_path):
+    result = synthetic_result(tmp_path)
+    # keys as verify writes them (invented values): internal names must not reach the page
+    result["geometry"].update({"phase_error_h_wl_per_frequency": [0.27, 0.28, 0.29], "apex_e_mm": None})
+    result["solver"].update({"symmetry": ["Mirror(X, phase=+1)", "Mirror(Y, phase=-1)"],
+                             "max_power_balance_error": 0.00469334096587241, "decay_by": 1e-4})
+    result["comparison"]["extra_checks"].append(
+        {"check": "s11_db", "frequency_index": 1, "value": None, "uncertainty": None, "limit": -10.0,
+         "verdict": "missing"})
+    (tmp_path / "result.json").write_text(json.dumps(result))
+    text = open(report.build_report(tmp_path), encoding="utf-8").read()
+    for internal in ("_wl", "s11_db", "Mirror(", "0.00469", "per frequency"):
+        assert internal not in text, internal
+    assert "x (even), y (odd)" in text
+    # 0.00469 of the incident power is 0.47 %
+    assert re.search(r"Largest power-balance error</th><td class='text'>0\.47</td><td class='text'>%", text)
+    assert "Peak phase error, H-plane</th>" in text and "wavelengths" in text
+    assert "<td class='text'>0.0001</td>" in text  # a small ratio keeps its digit, not 0.000
+    # one word for a missing value: the empty apex, the missing S11 and its verdict
+    body = text[:text.index("<section><h2>Figures")]
+    assert "—" not in body.replace(" — needs finer cells", "")
+    extra = text[text.index("id='extra-checks'"):]
+    extra = extra[:extra.index("</table>")]
+    assert "<td class='text'>S11</td>" in extra and extra.count("n/a") >= 3
