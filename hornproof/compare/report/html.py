@@ -65,6 +65,14 @@ from .format import MISSING_VALUE
 from .render import render_page, write_page
 
 
+def write_report(folder, template_name, context, captions, footer):
+    """Render ``template_name`` with the page data, the folder's figures, the RF-exposure
+    caution and ``footer``; write ``report.html`` into ``folder``; return its path."""
+    context = dict(context, figures=embedded_figures(folder, captions), caution_heading=RF_EXPOSURE_HEADING,
+                   caution=RF_EXPOSURE_CAUTION, footer=footer)
+    return write_page(Path(folder) / "report.html", render_page(template_name, context))
+
+
 def build_report(result_dir, *, render_missing=True):
     """Write ``report.html`` for a verify result folder.
 
@@ -90,13 +98,10 @@ def build_report(result_dir, *, render_missing=True):
     result = read_result_json(folder / "result.json")
     if render_missing:
         verify_page.render_missing_result_figures(folder, result)
-    context = verify_page.verify_context(result)
-    context.update(
-        figures=embedded_figures(folder, verify_page.figure_captions(result)),
-        caution_heading=RF_EXPOSURE_HEADING, caution=RF_EXPOSURE_CAUTION,
-        footer=(f"schema {RESULT_SCHEMA} · case hash {result.get('case_sha256', MISSING_VALUE)} · "
-                f"hornproof {result.get('hornproof_version', MISSING_VALUE)}"))
-    return write_page(folder / "report.html", render_page("verify.html.j2", context))
+    footer = (f"schema {RESULT_SCHEMA} · case hash {result.get('case_sha256', MISSING_VALUE)} · "
+              f"hornproof {result.get('hornproof_version', MISSING_VALUE)}")
+    return write_report(folder, "verify.html.j2", verify_page.verify_context(result),
+                        verify_page.figure_captions(result), footer)
 
 
 def build_sweep_report(sweep_dir, *, render_missing=True):
@@ -109,23 +114,13 @@ def build_sweep_report(sweep_dir, *, render_missing=True):
     render_missing : bool
         Draw ``error_vs_parameter.png`` from sweep.json if it is missing (default True).
 
-    Returns
-    -------
-    str
-        Path of the written report.
-
-    Raises
-    ------
-    InputError
-        No sweep.json, invalid JSON, or another schema version (with a hint).
+    Returns the path of the written report; raises ``InputError`` when sweep.json is missing,
+    is not valid JSON or carries another schema version (with a hint).
     """
     folder = Path(sweep_dir)
     sweep = read_sweep_json(folder / "sweep.json")
     if render_missing:
         sweep_page.render_missing_sweep_figure(folder, sweep)
-    context = sweep_page.sweep_context(sweep)
-    context.update(
-        figures=embedded_figures(folder, sweep_page.figure_captions(sweep)),
-        caution_heading=RF_EXPOSURE_HEADING, caution=RF_EXPOSURE_CAUTION,
-        footer=f"schema {SWEEP_SCHEMA} · case hash {sweep.get('case_sha256', MISSING_VALUE)}")
-    return write_page(folder / "report.html", render_page("sweep.html.j2", context))
+    footer = f"schema {SWEEP_SCHEMA} · case hash {sweep.get('case_sha256', MISSING_VALUE)}"
+    return write_report(folder, "sweep.html.j2", sweep_page.sweep_context(sweep),
+                        sweep_page.figure_captions(sweep), footer)
