@@ -1,3 +1,6 @@
+# Size exception (~470 lines, over the ~400 guide): one idea, the comparison figures sharing one
+# look (colours, legend, atomic save); jobs/ and tests call these functions by this module name,
+# so a split into style + figure modules waits for the jobs room to settle.
 """Figures for the comparison: pattern overlays, band plots, convergence ladders, sweeps, S11.
 
 Every function takes plain arrays, draws one figure with matplotlib's object API (no pyplot, no

@@ -124,7 +124,8 @@ def figure_captions(result):
     models = result.get("models") or {}
     stored = (models.get("fdtd") or {}).get("uncertainty") or {}
     has_bars = any(v is not None for values in stored.values() for v in (values or []))
-    captions["directivity_vs_frequency"] = ("Directivity over the band"
+    quantity = "2D directivity" if result.get("dims") == 2 else "Directivity"
+    captions["directivity_vs_frequency"] = (f"{quantity} over the band"
                                             + ("; bars: FDTD numerical uncertainty." if has_bars else "."))
     captions["s11"] = "Input reflection |S11| (dB) at the feed guide, FDTD model."
     captions["model"] = "The modelled metal on the finest grid, as the FDTD solver sees it."
