@@ -288,7 +288,7 @@ def _plot_directivity_vs_parameter(path_stem, document):
 
     p = document["parameter"]
     x = np.asarray(p["values"], dtype=float)
-    fig, ax = plots._new_figure()
+    fig, ax = plots.new_figure()
     for name in ("closed_form", "exact_phase", "fdtd"):
         y = document["models"].get(name)
         if y is None:
