@@ -70,6 +70,9 @@ SECOND_KEYS = frozenset({"seconds", "seconds_per_grid", "seconds_per_point"})
 CHECK_NAMES = {"s11_db": "S11", "pattern_rms_h_plane": "Main-lobe pattern RMS error, H-plane",
                "pattern_rms_e_plane": "Main-lobe pattern RMS error, E-plane"}
 
+#: decimals a figure in this unit is shown with in the tables (levels to 0.01 dB, angles to 0.1 deg)
+UNIT_DECIMALS = {"dB": 2, "dBi": 2, "deg": 1, "GHz": 3, "%": 2}
+
 _MIRROR = re.compile(r"Mirror\((\w+), phase=([+-]?\d+)\)")
 
 
@@ -93,6 +96,11 @@ def number(value, digits=3):
     if round(value, digits) == 0:
         value = 0.0  # no "−0.000"
     return f"{value:.{digits}f}".replace("-", "\u2212")
+
+
+def unit_decimals(unit):
+    """Decimals for a figure in ``unit`` (:data:`UNIT_DECIMALS`; 3 for any other unit)."""
+    return UNIT_DECIMALS.get(unit, 3)
 
 
 def step_decimals(values, unit):

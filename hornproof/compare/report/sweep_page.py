@@ -21,7 +21,7 @@ If ``error_vs_parameter.png`` is missing it is drawn from these arrays.
 """
 
 from . import plots
-from .format import MISSING_VALUE, number, quantity_rows, step_decimals
+from .format import MISSING_VALUE, number, quantity_rows, step_decimals, unit_decimals
 from .verify_page import floats
 
 #: the three model errors of a sweep, as the breakdown table names them
@@ -53,11 +53,13 @@ def sweep_rows(sweep, decimals):
     uncertainty = column(sweep, "fdtd_uncertainty", n)
     closed_form, exact_phase, fdtd = (column(models, k, n) for k in ("closed_form", "exact_phase", "fdtd"))
     phase, aperture, total = (column(errors, k, n) for k in ("phase_approximation", "aperture_model", "total"))
-    return [{"parameter": number(x, decimals), "closed_form": number(closed_form[i]),
-             "exact_phase": number(exact_phase[i]),
-             "fdtd": number(fdtd[i]) + ("" if fdtd[i] is None else " ± " + number(uncertainty[i])),
-             "phase_approximation_error": number(phase[i]), "aperture_model_error": number(aperture[i]),
-             "total_error": number(total[i])} for i, x in enumerate(values)]
+    digits = unit_decimals((sweep.get("figure") or {}).get("unit", ""))
+    return [{"parameter": number(x, decimals), "closed_form": number(closed_form[i], digits),
+             "exact_phase": number(exact_phase[i], digits),
+             "fdtd": number(fdtd[i], digits) + ("" if fdtd[i] is None else " ± " + number(uncertainty[i], digits)),
+             "phase_approximation_error": number(phase[i], digits),
+             "aperture_model_error": number(aperture[i], digits),
+             "total_error": number(total[i], digits)} for i, x in enumerate(values)]
 
 
 def sweep_context(sweep):

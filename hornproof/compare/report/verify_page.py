@@ -10,7 +10,7 @@ import math
 from ...units import GHZ
 from ..numerics.verdict import COMPARED_FIGURES
 from . import plots
-from .format import CHECK_NAMES, MISSING_VALUE, number, quantity_rows
+from .format import CHECK_NAMES, MISSING_VALUE, number, quantity_rows, unit_decimals
 
 #: verdict words shown to people (DISAGREES in capitals so it cannot be missed)
 VERDICT_TEXT = {
@@ -46,20 +46,22 @@ def verdict_rows(comparison):
     rows = []
     for metric in comparison.get("metrics", []):
         ladder = ladder_status(comparison, metric.get("metric")) or []
+        digits = unit_decimals(metric.get("unit", ""))
         for i, row in enumerate(metric.get("per_frequency", [])):
             verdict = str(row.get("verdict", "missing"))
-            fdtd = number(row.get("fdtd"))
+            fdtd = number(row.get("fdtd"), digits)
             if row.get("fdtd") is not None:
-                fdtd += " ± " + number(row.get("fdtd_uncertainty"))
+                fdtd += " ± " + number(row.get("fdtd_uncertainty"), digits)
             rows.append({
                 "metric": metric.get("label", metric.get("metric", MISSING_VALUE)),
                 "frequency": number(row.get("frequency_ghz")),
-                "closed_form": number(row.get("closed_form")), "exact_phase": number(row.get("exact_phase")),
-                "fdtd": fdtd, "difference": number(row.get("difference")),
-                "tolerance": number(metric.get("tolerance")), "verdict": verdict,
+                "closed_form": number(row.get("closed_form"), digits),
+                "exact_phase": number(row.get("exact_phase"), digits),
+                "fdtd": fdtd, "difference": number(row.get("difference"), digits),
+                "tolerance": number(metric.get("tolerance"), digits), "verdict": verdict,
                 "verdict_text": VERDICT_TEXT.get(verdict, verdict),
-                "phase_approximation_error": number(row.get("phase_approximation_error")),
-                "aperture_model_error": number(row.get("aperture_model_error")),
+                "phase_approximation_error": number(row.get("phase_approximation_error"), digits),
+                "aperture_model_error": number(row.get("aperture_model_error"), digits),
                 "unit": metric.get("unit", ""), "ladder": ladder[i] if i < len(ladder) else MISSING_VALUE,
             })
     return rows
@@ -80,8 +82,8 @@ def extra_check_rows(result):
         check = str(row.get("check", MISSING_VALUE))
         rows.append({"check": CHECK_NAMES.get(check, check.replace("_", " ")),
                      "frequency": number(frequency_at(result, row.get("frequency_index"))),
-                     "value": number(row.get("value")), "uncertainty": number(row.get("uncertainty")),
-                     "limit": number(row.get("limit")), "verdict": verdict,
+                     "value": number(row.get("value"), 2), "uncertainty": number(row.get("uncertainty"), 2),
+                     "limit": number(row.get("limit"), 2), "verdict": verdict,  # all in dB
                      "verdict_text": VERDICT_TEXT.get(verdict, verdict)})
     return rows
 
@@ -98,9 +100,9 @@ def pattern_error_rows(result):
             for i, value in enumerate(rms):
                 rows.append({"plane": plane.replace("_", "-").replace("h-", "H-").replace("e-", "E-"),
                              "model": MODEL_NAMES.get(model, model.replace("_", " ")).capitalize(),
-                             "frequency": number(frequency_at(result, i)), "rms": number(value),
-                             "uncertainty": number((entry.get("uncertainty_db") or missing)[i]),
-                             "worst": number((entry.get("worst_db") or missing)[i]),
+                             "frequency": number(frequency_at(result, i)), "rms": number(value, 2),
+                             "uncertainty": number((entry.get("uncertainty_db") or missing)[i], 2),
+                             "worst": number((entry.get("worst_db") or missing)[i], 2),
                              "worst_angle": number((entry.get("worst_angle_deg") or missing)[i], 1)})
     return rows
 

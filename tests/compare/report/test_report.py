@@ -104,12 +104,12 @@ def test_report_self_contained_verdicts_first_and_safety(tmp_path):
     table = text[text.index("id='verdicts'"):text.index("</table>")]
     cells = re.findall(r"<td class='text verdict'>([^<]*)</td>", table)
     assert cells == [VERDICT_TEXT[v] for v in ("agrees", "unresolved", "disagrees")]
-    assert "16.000" in table and "15.600 ± 0.250" in table
+    assert "<td>16.00</td>" in table and "<td>15.60 ± 0.25</td>" in table  # levels to 0.01 dB
     assert result["comparison"]["overall"] == "disagrees" and "DISAGREES" in text
-    # Pattern error and further checks precede the figures too; 0.3 dB offset -> RMS 0.300.
+    # Pattern error and further checks precede the figures too; 0.3 dB offset -> RMS 0.30 dB.
     assert text.index("id='pattern-error'") < text.index("<img")
     pattern = text[text.index("id='pattern-error'"):]
-    assert "<td>0.300</td>" in pattern[:pattern.index("</table>")]
+    assert "<td>0.30</td>" in pattern[:pattern.index("</table>")]
     extra = text[text.index("id='extra-checks'"):]
     assert "agrees" in extra[:extra.index("</table>")]
 
