@@ -430,7 +430,7 @@ def verify_case(case, out_dir=None, *, force=False, ladder=None, progress=None):
 def _model_image(case, cells_per_wavelength, out_dir):
     """model.png of the finest grid. Every MPI rank takes part (Meep's arrays are collective);
     the master writes it beside the result folder, and ``_publish`` moves it in."""
-    from ...sim.metal_map import metal_cuts
+    from ...sim.metal_map import metal_cuts  # lazy: Meep and matplotlib load only when an image is drawn
     from ..report.model_image import model_image
 
     out_dir.parent.mkdir(parents=True, exist_ok=True)
