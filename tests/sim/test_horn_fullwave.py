@@ -176,14 +176,6 @@ def test_e_sectoral_2d_model_matches_line_source():
 
 
 @pytest.mark.fullwave
-def test_model_image_is_written(tmp_path):
-    from hornproof.sim.model import model_image
-
-    path = model_image(SMALL, FdtdSettings(), 8, tmp_path / "model.png", frequencies=np.array([9e9, 11e9]))
-    assert path.stat().st_size > 1000
-
-
-@pytest.mark.fullwave
 @pytest.mark.slow
 def test_full_pattern_integrates_to_the_radiated_power():
     from hornproof.sim.run import simulate

@@ -29,6 +29,7 @@ from ..case.casefile import load_case
 from ..case.sweepspec import PARAMETER_LABELS
 from ..output.folders import check_output_folder
 from ..output.summary import SAFETY_NOTE, dumps, emit_result, jsonable, safety_lines
+from ..report.format import MISSING_VALUE
 
 SCHEMA = "hornproof.sweep/1"
 
@@ -266,8 +267,9 @@ def _plot_sweep(folder, document):
 
     plots.plot_error_vs_parameter(
         arr(p["values"]), arr(errors["phase_approximation"]), arr(errors["aperture_model"]),
-        folder / "error_vs_parameter", phase_approximation_uncertainty=0.0,
-        aperture_model_uncertainty=arr(unc["aperture_model"]), tolerance=document["tolerance"],
+        folder / "error_vs_parameter", total_error=arr(errors.get("total")), phase_approximation_uncertainty=0.0,
+        aperture_model_uncertainty=arr(unc["aperture_model"]), total_uncertainty=arr(unc.get("total")),
+        tolerance=document["tolerance"],
         breakdown=document["breakdown"], parameter_label=p["label"], parameter_unit=p["unit"],
         error_label=f"{document['figure']['label']} error", error_unit="dB",
         case_title=f"{document['title']} — at {document['frequency_ghz']:.3g} GHz")
@@ -279,7 +281,7 @@ def _plot_directivity_vs_parameter(path_stem, document):
 
     p = document["parameter"]
     x = np.asarray(p["values"], dtype=float)
-    fig, ax = plots._new_figure()
+    fig, ax = plots.new_figure()
     for name in ("closed_form", "exact_phase", "fdtd"):
         y = document["models"].get(name)
         if y is None:
@@ -314,7 +316,7 @@ def format_sweep(document):
              f"{'phase err':>9} {'aperture err':>12}"]
 
     def f(v, w=8, d=2):
-        return "-".rjust(w) if v is None else f"{v:{w}.{d}f}"
+        return MISSING_VALUE.rjust(w) if v is None else f"{v:{w}.{d}f}"
 
     fd = document["models"]["fdtd"] or [None] * len(p["values"])
     u = document["fdtd_uncertainty"] or [None] * len(p["values"])

@@ -19,6 +19,7 @@ from ..case.casefile import load_case
 from ..output.folders import check_output_folder, publish_folder
 from ..cli.predict import predict_case
 from ..output.summary import dumps, emit_result, jsonable, safety_lines
+from ..report.format import MISSING_VALUE
 
 #: case-file check name -> comparison metrics it applies to (verdict.COMPARED_FIGURES keys)
 CHECK_METRICS = {
@@ -429,11 +430,14 @@ def verify_case(case, out_dir=None, *, force=False, ladder=None, progress=None):
 def _model_image(case, cells_per_wavelength, out_dir):
     """model.png of the finest grid. Every MPI rank takes part (Meep's arrays are collective);
     the master writes it beside the result folder, and ``_publish`` moves it in."""
-    from ...sim.model import model_image
+    from ...sim.metal_map import metal_cuts  # lazy: Meep and matplotlib load only when an image is drawn
+    from ..report.model_image import model_image
 
     out_dir.parent.mkdir(parents=True, exist_ok=True)
     path = out_dir.parent / f".{out_dir.name}.model.png"
-    model_image(case.horn, case.fdtd, cells_per_wavelength, path, frequencies=case.frequencies)
+    layout, cuts = metal_cuts(case.horn, case.fdtd, cells_per_wavelength, frequencies=case.frequencies)
+    if _is_master():
+        model_image(layout, cuts, path)
     return path
 
 
@@ -460,7 +464,7 @@ def format_verdicts(summary):
              f"  {'metric':<24} {'f GHz':>7} {'closed':>8} {'exact':>8} {'FDTD':>8} {'+-':>6} {'diff':>7} {'tol':>5}  verdict"]
 
     def fmt(v, w=8, d=2):
-        return "-".rjust(w) if v is None else f"{v:{w}.{d}f}"
+        return MISSING_VALUE.rjust(w) if v is None else f"{v:{w}.{d}f}"
 
     for metric in comparison["metrics"]:
         for row in metric["per_frequency"]:

@@ -15,7 +15,9 @@ import pytest
 
 from hornproof.compare.numerics import convergence, metrics, verdict
 from hornproof.compare.report import plots
+from hornproof.compare.report import format as report_format
 from hornproof.compare.report import html as report
+from hornproof.compare.report.verify_page import VERDICT_TEXT
 from hornproof.compare.output.safety import RF_EXPOSURE_CAUTION
 from hornproof.errors import InputError
 
@@ -101,13 +103,13 @@ def test_report_self_contained_verdicts_first_and_safety(tmp_path):
     assert rows[0]["fdtd_uncertainty"] == pytest.approx(0.25)
     table = text[text.index("id='verdicts'"):text.index("</table>")]
     cells = re.findall(r"<td class='text verdict'>([^<]*)</td>", table)
-    assert cells == [report._VERDICT_TEXT[v] for v in ("agrees", "unresolved", "disagrees")]
-    assert "16.000" in table and "15.600 ± 0.250" in table
+    assert cells == [VERDICT_TEXT[v] for v in ("agrees", "unresolved", "disagrees")]
+    assert "<td>16.00</td>" in table and "<td>15.60 ± 0.25</td>" in table  # levels to 0.01 dB
     assert result["comparison"]["overall"] == "disagrees" and "DISAGREES" in text
-    # Pattern error and further checks precede the figures too; 0.3 dB offset -> RMS 0.300.
+    # Pattern error and further checks precede the figures too; 0.3 dB offset -> RMS 0.30 dB.
     assert text.index("id='pattern-error'") < text.index("<img")
     pattern = text[text.index("id='pattern-error'"):]
-    assert "<td>0.300</td>" in pattern[:pattern.index("</table>")]
+    assert "<td>0.30</td>" in pattern[:pattern.index("</table>")]
     extra = text[text.index("id='extra-checks'"):]
     assert "agrees" in extra[:extra.index("</table>")]
 
@@ -152,7 +154,9 @@ def test_sweep_report(tmp_path):
     # linear interpolation gives 15.143 + 0.0414/0.2526 · 3.714 = 15.75 deg (the smooth
     # curve crosses at sqrt(250) = 15.81 deg).
     assert brk["phase_approximation"] == pytest.approx(15.75, abs=0.01)
-    assert f"{brk['phase_approximation']:.3f} deg" in text
+    # Shown to one decimal: the swept values are 3.7 deg apart.
+    assert f"{brk['phase_approximation']:.1f} deg" in text
+    assert f"{brk['phase_approximation']:.3f}" not in text
     assert "none within the swept range" in text
     assert "IEEE C95.1-2019" in text
     (tmp_path / "sweep.json").write_text(json.dumps({**sweep, "schema": "hornproof.result/1"}))
@@ -161,8 +165,41 @@ def test_sweep_report(tmp_path):
 
 
 def test_number_formatting_in_tables():
-    # Typographic minus (Unicode U+2212), no negative zero, missing values as a dash.
-    assert report._number(-0.2) == "\u22120.200"
-    assert report._number(-0.0001) == "0.000"
-    assert report._number(None) == "—" and report._number(float("nan")) == "—"
-    assert report._value_text(20.0) == "20" and report._value_text(True) == "yes"
+    # Typographic minus (Unicode U+2212), no negative zero, missing values as one word.
+    assert report_format.number(-0.2) == "\u22120.200"
+    assert report_format.number(-0.0001) == "0.000"
+    assert report_format.number(None) == "n/a" and report_format.number(float("nan")) == "n/a"
+    assert report_format.value_text(20.0) == "20" and report_format.value_text(True) == "yes"
+
+
+def test_autoescape_of_a_script_title(tmp_path):
+    synthetic_result(tmp_path, title="<script>alert(1)</script> horn")
+    text = open(report.build_report(tmp_path), encoding="utf-8").read()
+    assert "<script" not in text
+    assert "&lt;script&gt;alert(1)&lt;/script&gt; horn" in text
+
+
+def test_trade_words_and_one_missing_value_word(tmp_path):
+    result = synthetic_result(tmp_path)
+    # keys as verify writes them (invented values): internal names must not reach the page
+    result["geometry"].update({"phase_error_h_wl_per_frequency": [0.27, 0.28, 0.29], "apex_e_mm": None})
+    result["solver"].update({"symmetry": ["Mirror(X, phase=+1)", "Mirror(Y, phase=-1)"],
+                             "max_power_balance_error": 0.00469334096587241, "decay_by": 1e-4})
+    result["comparison"]["extra_checks"].append(
+        {"check": "s11_db", "frequency_index": 1, "value": None, "uncertainty": None, "limit": -10.0,
+         "verdict": "missing"})
+    (tmp_path / "result.json").write_text(json.dumps(result))
+    text = open(report.build_report(tmp_path), encoding="utf-8").read()
+    for internal in ("_wl", "s11_db", "Mirror(", "0.00469", "per frequency"):
+        assert internal not in text, internal
+    assert "x (even), y (odd)" in text
+    # 0.00469 of the incident power is 0.47 %
+    assert re.search(r"Largest power-balance error</th><td class='text'>0\.47</td><td class='text'>%", text)
+    assert "Peak phase error, H-plane</th>" in text and "wavelengths" in text
+    assert "<td class='text'>0.0001</td>" in text  # a small ratio keeps its digit, not 0.000
+    # one word for a missing value: the empty apex, the missing S11 and its verdict
+    body = text[:text.index("<section><h2>Figures")]
+    assert "—" not in body.replace(" — needs finer cells", "")
+    extra = text[text.index("id='extra-checks'"):]
+    extra = extra[:extra.index("</table>")]
+    assert "<td class='text'>S11</td>" in extra and extra.count("n/a") >= 3
