@@ -71,7 +71,7 @@ def _relative_cost(cpw, dims):
 def resource_line(case, cells_per_wavelength):
     """One line: grid cells and memory the run will take (``sim.estimate``), before it runs."""
     from ...sim.estimate import available_memory_bytes, estimate_for_layout
-    from ...sim.model import plan_layout
+    from ...sim.layout import plan_layout
 
     layout = plan_layout(case.horn, case.frequencies, case.fdtd, cells_per_wavelength)
     est = estimate_for_layout(layout, len(case.frequencies), use_symmetry=case.fdtd.use_symmetry)

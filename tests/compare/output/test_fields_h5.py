@@ -187,12 +187,12 @@ def test_atomic_writer_keeps_old_content_on_failure(tmp_path):
 
 
 def test_fields_from_the_physics_side_result_class(tmp_path):
-    # sim.run.SimResult keeps its metadata in a ``run`` dict (meep_version,
+    # sim.result.SimResult keeps its metadata in a ``run`` dict (meep_version,
     # resolution_cells_per_m, wall_thickness_modelled_m, power_units): the writer must find it
-    run_module = pytest.importorskip("hornproof.sim.run")
+    result_module = pytest.importorskip("hornproof.sim.result")
     base = _result(nf=2, ntheta=5)
     nan = np.full(2, np.nan)
-    result = run_module.SimResult(
+    result = result_module.SimResult(
         name="fdtd", dims=3, frequencies=base.frequencies, theta_deg=base.theta_deg,
         h_plane_dbi=base.h_plane_dbi, e_plane_dbi=base.e_plane_dbi, directivity_dbi=nan,
         hpbw_h_deg=nan, hpbw_e_deg=nan, first_null_h_deg=nan, first_null_e_deg=nan,
