@@ -27,9 +27,10 @@ from ... import __version__
 from ...errors import InputError
 from ..case.casefile import load_case
 from ..output.folders import check_output_folder
-from ..output.summary import SAFETY_NOTE, dumps, emit_result, jsonable, safety_lines
-
-SCHEMA = "hornproof.sweep/1"
+from ..output.json_document import jsonable
+from ..output.summary import SAFETY_NOTE
+from ..output.sweep_json import SWEEP_SCHEMA, write_sweep_json
+from ..output.terminal import emit_result, safety_lines
 
 PARAMETER_LABELS = {
     "flare_half_angle_h_deg": ("H-plane flare half-angle", "deg"),
@@ -180,7 +181,7 @@ def run_sweep(case, out_dir, *, dims=None, ladder=None, analytic_only=False, for
         breakdown["total"] = breakdown_threshold(values_a, total_err, usable_u, tolerance)
     label, unit = PARAMETER_LABELS[spec.parameter]
     document = {
-        "schema": SCHEMA, "case": case.name, "title": case.title, "case_sha256": case.sha256,
+        "schema": SWEEP_SCHEMA, "case": case.name, "title": case.title, "case_sha256": case.sha256,
         "parameter": {"name": spec.parameter, "label": label, "unit": unit, "values": values,
                       "held_fixed": "flare half-angles" if spec.parameter == "flare_length_mm" else "flare length"},
         "frequency_ghz": float(freqs[centre] / 1e9),
@@ -207,11 +208,10 @@ def run_sweep(case, out_dir, *, dims=None, ladder=None, analytic_only=False, for
     }
     document = jsonable(document)
     if _is_master():
-        from ...atomic import write_text_atomic
         from ..report.html import build_sweep_report
 
         _plot_sweep(out_dir, document)
-        write_text_atomic(out_dir / "sweep.json", dumps(document))
+        write_sweep_json(out_dir / "sweep.json", document)
         build_sweep_report(out_dir)
     return document
 

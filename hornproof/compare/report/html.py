@@ -70,19 +70,17 @@ If ``error_vs_parameter.png`` is missing it is drawn from these arrays.
 
 import base64
 import html
-import json
 import math
 import os
 import tempfile
 from pathlib import Path
 
-from ...errors import InputError
 from ...units import GHZ
 from . import plots
+from ..output.result_json import RESULT_SCHEMA, read_result_json
 from ..output.safety import RF_EXPOSURE_CAUTION, RF_EXPOSURE_HEADING
+from ..output.sweep_json import SWEEP_SCHEMA, read_sweep_json
 
-RESULT_SCHEMA = "hornproof.result/1"
-SWEEP_SCHEMA = "hornproof.sweep/1"
 
 _VERDICT_TEXT = {
     "agrees": "agrees",
@@ -133,24 +131,6 @@ def _number(value, digits=3):
     if round(value, digits) == 0:
         value = 0.0  # no "−0.000"
     return f"{value:.{digits}f}".replace("-", "\u2212")
-
-
-def _read_json(path, schema):
-    try:
-        data = json.loads(Path(path).read_text(encoding="utf-8"))
-    except FileNotFoundError:
-        raise InputError(f"{path}: not found") from None
-    except json.JSONDecodeError as error:
-        raise InputError(f"{path}: not valid JSON ({error.msg}, line {error.lineno})") from None
-    if not isinstance(data, dict):
-        raise InputError(f"{path}: expected a JSON object")
-    found = data.get("schema")
-    if found != schema:
-        raise InputError(
-            f"{path}: schema: {found!r} is not {schema!r}; this hornproof reads only {schema} — "
-            "re-run the case with this version, or use the hornproof version that wrote it"
-        )
-    return data
 
 
 def _write_atomic(path, text):
@@ -450,7 +430,7 @@ def build_report(result_dir, *, render_missing=True):
         No result.json, invalid JSON, or another schema version (with a hint).
     """
     folder = Path(result_dir)
-    result = _read_json(folder / "result.json", RESULT_SCHEMA)
+    result = read_result_json(folder / "result.json")
     if render_missing:
         _render_missing_result_figures(folder, result)
     comparison = result.get("comparison") or {}
@@ -564,7 +544,7 @@ def build_sweep_report(sweep_dir, *, render_missing=True):
         No sweep.json, invalid JSON, or another schema version (with a hint).
     """
     folder = Path(sweep_dir)
-    sweep = _read_json(folder / "sweep.json", SWEEP_SCHEMA)
+    sweep = read_sweep_json(folder / "sweep.json")
     if render_missing:
         _render_missing_sweep_figure(folder, sweep)
     parameter = sweep.get("parameter", {})
