@@ -111,9 +111,9 @@ def worker(spec):
 def memory_estimate(horn, frequencies, settings, cells_per_wavelength, steps=0):
     """hornproof.sim.estimate's figures for the model ``simulate`` lays out."""
     from hornproof.sim import estimate
-    from hornproof.sim import model as md
+    from hornproof.sim.layout import plan_layout
 
-    layout = md.plan_layout(horn, frequencies, settings, cells_per_wavelength)
+    layout = plan_layout(horn, frequencies, settings, cells_per_wavelength)
     result = estimate.estimate_for_layout(layout, len(frequencies), settings.use_symmetry,
                                           steps=steps or 0)
     return {"cells": result.cells, "pml_cells": result.pml_cells,

@@ -28,6 +28,7 @@ from functools import lru_cache
 import numpy as np
 from scipy.optimize import brentq, minimize_scalar
 
+from ..units import GHZ, to_mm
 from ..units import wavelength as _wavelength
 from . import closed_form
 from . import exact_phase
@@ -255,7 +256,7 @@ def design_for_gain(gain_dbi, frequency, guide_a, guide_b, *, phase_errors="rule
     f = _check_scalar_frequency(frequency)
     cutoff = float(te10_cutoff_frequency(a))
     if f <= cutoff:
-        raise ValueError(f"frequency: {f / 1e9:.4g} GHz is at or below the guide's TE10 cutoff {cutoff / 1e9:.4g} GHz")
+        raise ValueError(f"frequency: {f / GHZ:.4g} GHz is at or below the guide's TE10 cutoff {cutoff / GHZ:.4g} GHz")
     target_db = float(gain_dbi)
     if not np.isfinite(target_db):
         raise ValueError(f"gain_dbi must be a finite gain in dBi, got {gain_dbi!r}")
@@ -293,7 +294,7 @@ def design_for_gain(gain_dbi, frequency, guide_a, guide_b, *, phase_errors="rule
     if target_db <= d_lo:
         raise ValueError(f"gain_dbi: {target_db:.2f} dBi is not above {d_lo:.2f} dBi, the directivity of the "
                          f"smallest horn on this guide with phase errors S = {s:.3g}, T = {t:.3g} at "
-                         f"{f / 1e9:.4g} GHz")
+                         f"{f / GHZ:.4g} GHz")
     l_hi = wl
     while directivity_db(l_hi) < target_db:
         l_hi *= 2
@@ -330,8 +331,8 @@ def horn_from_slant_lengths(kind, guide_a, guide_b, aperture_a, aperture_b, *, s
     if not lengths:
         raise ValueError(f"kind must be one of h-sectoral, e-sectoral, pyramidal, got {kind!r}")
     if len(lengths) == 2 and abs(lengths["h"] - lengths["e"]) > rtol * max(lengths.values()):
-        raise ValueError(f"slant_h: H-plane and E-plane flare lengths differ ({lengths['h'] * 1e3:.4f} mm vs "
-                         f"{lengths['e'] * 1e3:.4f} mm): not a realizable pyramidal horn")
+        raise ValueError(f"slant_h: H-plane and E-plane flare lengths differ ({to_mm(lengths['h']):.4f} mm vs "
+                         f"{to_mm(lengths['e']):.4f} mm): not a realizable pyramidal horn")
     length = float(np.mean(list(lengths.values())))
     return HornGeometry(kind, float(guide_a), float(guide_b), float(aperture_a), float(aperture_b), length,
                         wall_thickness)

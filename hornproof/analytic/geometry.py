@@ -20,7 +20,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from ..units import wavelength
+from ..units import GHZ, to_mm, wavelength
 
 HORN_TYPES = ("h-sectoral", "e-sectoral", "pyramidal")
 
@@ -117,7 +117,7 @@ class HornGeometry:
         """
 
         def mm(x):
-            return None if not np.isfinite(x) else round(float(x) * 1e3, 6)
+            return None if not np.isfinite(x) else round(to_mm(float(x)), 6)
 
         return {
             "type": self.kind,
@@ -135,7 +135,7 @@ class HornGeometry:
             "flare_half_angle_e_deg": float(np.degrees(self.flare_half_angle_e)),
             "phase_error_h_wl": float(self.phase_error_h(frequency)),
             "phase_error_e_wl": float(self.phase_error_e(frequency)),
-            "phase_reference_ghz": float(frequency) / 1e9,
+            "phase_reference_ghz": float(frequency) / GHZ,
         }
 
 

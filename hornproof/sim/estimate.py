@@ -33,7 +33,7 @@ of 6 on 2 cores: 8.3–10.7 ns per interior 3D cell-step, 21–24 ns per cell-st
 PML weight is the least certain coefficient).
 
 In the empty probes the DFT updates added little per step (100 near-to-far frequencies cost
-+6 % time). A horn model from ``sim.model`` steps slower than an empty cell (PEC walls, four
++6 % time). A horn model from ``sim.layout`` / ``sim.walls`` steps slower than an empty cell (PEC walls, four
 DFT monitors, a Python stop condition every step): :func:`estimate_for_layout` adds the
 measured :data:`MODEL_TIME_FACTOR` and :data:`PER_STEP_OVERHEAD_SECONDS`. The near-to-far
 transform after stepping is not in ``seconds``.
@@ -216,7 +216,7 @@ def estimate_resources(cell_size_xyz_m, resolution_cells_per_m, dims, n_frequenc
 
 
 def estimate_for_layout(layout, n_frequencies, use_symmetry=True, steps=0, rate=None):
-    """:func:`estimate_resources` for a ``sim.model.Layout`` (duck-typed).
+    """:func:`estimate_resources` for a ``sim.layout.Layout`` (duck-typed).
 
     Reads ``dims``, ``unit_length`` (m per Meep unit), ``resolution`` (cells per Meep unit),
     ``cell_size_m``, ``pml``, ``pml_back`` (behind the feed, low z), ``box_half`` and

@@ -44,6 +44,18 @@ def guide_width(layout):
     return layout.guide_b if (layout.dims == 2 and layout.transverse == "e") else layout.guide_a
 
 
+def source_band(meep_frequencies):
+    """(centre, width) of the Gaussian pulse that covers the band (Meep frequency units).
+
+    The pulse is centred on the band and 1.5 times as wide as the band, at least a quarter of
+    its centre frequency wide.
+    """
+    f_lo, f_hi = float(np.min(meep_frequencies)), float(np.max(meep_frequencies))
+    centre = 0.5 * (f_lo + f_hi)
+    width = max(1.5 * (f_hi - f_lo), 0.25 * centre)
+    return centre, width
+
+
 def feed_source(layout, centre_frequency, frequency_width):
     """Meep current sheet launching the feed mode (both ways; the backward half runs into the PML).
 

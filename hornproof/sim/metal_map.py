@@ -10,12 +10,13 @@ from dataclasses import dataclass
 import numpy as np
 
 from ..units import SPEED_OF_LIGHT
-from .model import boundary_layers, horn_geometry, plan_layout
+from .layout import boundary_layers, plan_layout
+from .walls import horn_geometry
 
 
 @dataclass(frozen=True)
 class MetalCut:
-    """One axial cut of the modelled cell (lengths in Meep units, see :mod:`hornproof.sim.model`).
+    """One axial cut of the modelled cell (lengths in Meep units, see :mod:`hornproof.sim.layout`).
 
     ``permittivity`` is Meep's dielectric map over the cut ([transverse, z]; metal reads < 0,
     a voxel with only some metal Yee points reads neither 1 nor < 0); ``width`` the transverse
@@ -35,7 +36,7 @@ def metal_cuts(horn, settings, cells_per_wavelength, frequencies=None):
 
     ``frequencies`` (Hz) sets the band used for the layout; by default the TE10 band of the
     guide, 1.25 to 1.9 times cutoff. Collective under MPI: every rank must call it (every rank
-    gets the whole arrays). Returns ``(layout, cuts)``: the :class:`~hornproof.sim.model.Layout`
+    gets the whole arrays). Returns ``(layout, cuts)``: the :class:`~hornproof.sim.layout.Layout`
     and a list of :class:`MetalCut` (xz and yz in 3D, the flared plane in 2D).
     """
     import meep as mp  # lazy: the rest of hornproof imports without Meep

@@ -27,7 +27,7 @@ __all__ = ["rank", "size", "is_master", "group_rank", "group_size", "is_group_ma
 
 def _meep():
     try:
-        import meep
+        import meep  # lazy and optional: slow to import, and it starts MPI (and prints a banner)
     except ImportError:
         return None
     return meep
@@ -60,7 +60,7 @@ def size():
     if mp is None:
         return _environment_size()
     try:
-        from mpi4py import MPI
+        from mpi4py import MPI  # lazy and optional: mpi4py may be absent in a serial install
     except ImportError:
         return int(mp.count_processors())  # world size unless groups are active
     return int(MPI.COMM_WORLD.Get_size())
@@ -92,7 +92,7 @@ def is_group_master():
 def barrier():
     """Wait for all processes (no-op when serial)."""
     if size() > 1:
-        from mpi4py import MPI
+        from mpi4py import MPI  # lazy: only a parallel run needs it
 
         MPI.COMM_WORLD.Barrier()
 
@@ -130,6 +130,7 @@ def run_in_groups(tasks, function, n_groups=None):
     if world == 1 or n_groups == 1:
         return [function(task) for task in tasks]
 
+    # lazy: only a parallel run needs them, and Meep is slow to import
     import meep as mp
     from mpi4py import MPI
 

@@ -16,6 +16,8 @@ import math
 import sys
 import time
 
+from . import mpi
+
 __all__ = ["time_fraction", "decay_fraction", "format_duration", "ProgressReporter"]
 
 
@@ -58,8 +60,6 @@ def format_duration(seconds):
 def _on_master():
     """Rank 0? Asks Meep only if it is already imported: importing it just for this would
     print Meep's MPI banner on stdout; before that, the launcher's environment tells."""
-    from . import mpi
-
     if "meep" in sys.modules:
         return mpi.is_master()
     return mpi._environment_rank() == 0

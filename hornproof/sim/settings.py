@@ -31,7 +31,7 @@ class FdtdSettings:
         Step of the full (θ, φ) far-field grid; None skips it.
     farfield_method : {"fast", "meep"}
         Far-field transform: "fast", the numpy far-zone transform of the Yee-grid surface
-        currents (``sim.farfield.fast_far_fields``), or "meep", Meep's ``get_farfield`` point by
+        currents (``sim.farfield_transform.fast_far_fields``), or "meep", Meep's ``get_farfield`` point by
         point (the reference; about 40 ms per direction and frequency on a small horn).
     """
 

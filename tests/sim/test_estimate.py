@@ -167,7 +167,7 @@ def test_pml_per_side_by_hand():
 @pytest.mark.fullwave
 def test_layout_estimate_counts_the_cells_meep_builds():
     # the physics side's layout of a small invented WR-90 horn; Meep's own grid is the reference
-    model = pytest.importorskip("hornproof.sim.model")
+    layout_module = pytest.importorskip("hornproof.sim.layout")
     import numpy as np
 
     from hornproof.analytic.geometry import HornGeometry
@@ -175,7 +175,7 @@ def test_layout_estimate_counts_the_cells_meep_builds():
     from hornproof.sim.settings import FdtdSettings
 
     horn = HornGeometry("h-sectoral", 22.86e-3, 10.16e-3, 45e-3, 10.16e-3, 40e-3, 1e-3)
-    layout = model.plan_layout(horn, np.array([10e9]), FdtdSettings(), 8.0)
+    layout = layout_module.plan_layout(horn, np.array([10e9]), FdtdSettings(), 8.0)
     script = ("import json, sys, meep as mp\nmp.verbosity(0)\n"
               "size, res = json.loads(sys.argv[1])\n"
               "s = mp.Simulation(cell_size=mp.Vector3(*size), resolution=res)\ns.init_sim()\n"

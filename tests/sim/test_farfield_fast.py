@@ -1,4 +1,4 @@
-"""The numpy far-zone transform (``sim.farfield.fast_far_fields``) against outside references.
+"""The numpy far-zone transform (``sim.farfield_transform.fast_far_fields``) against outside references.
 
 * Meep's own ``get_farfield`` (the reference implementation of the near-to-far transform) on the
   same FDTD fields: directivity cuts within 0.05 dB over the main lobe, 0.3 dB down to −30 dB,
@@ -14,7 +14,7 @@ import numpy as np
 import pytest
 
 from hornproof.analytic.geometry import HornGeometry
-from hornproof.sim import farfield as ff
+from hornproof.sim import farfield_transform, pattern
 from hornproof.sim.settings import FdtdSettings
 
 WR90 = (22.86e-3, 10.16e-3)  # EIA RS-261 / IEC 60153-2 WR-90, 0.900 x 0.400 in (from memory)
@@ -34,39 +34,39 @@ def test_hat_weights_integrate_linear_functions_exactly():
     # rule with partial end cells; any numerical-analysis text)
     step = 0.1
     for lower, upper, parity in ((-0.513, 0.487, 1), (0.2, 0.9, 0), (0.25, 0.3, 1), (-0.3, 0.3, 0)):
-        x = ff.lattice_positions(lower, upper, step, parity)
-        w = ff.hat_weights(x, lower, upper, step)
+        x = farfield_transform.lattice_positions(lower, upper, step, parity)
+        w = farfield_transform.hat_weights(x, lower, upper, step)
         assert np.sum(w) == pytest.approx(upper - lower, abs=1e-12)
         assert np.sum(w * (2.0 + 3.0 * x)) == pytest.approx(2.0 * (upper - lower) + 1.5 * (upper**2 - lower**2),
                                                             abs=1e-12)
     # zero length: linear interpolation weights, summing to 1 and reproducing the position
-    x = ff.lattice_positions(0.537, 0.537, step, 0)
-    w = ff.hat_weights(x, 0.537, 0.537, step)
+    x = farfield_transform.lattice_positions(0.537, 0.537, step, 0)
+    w = farfield_transform.hat_weights(x, 0.537, 0.537, step)
     assert np.sum(w) == pytest.approx(1.0) and np.sum(w * x) == pytest.approx(0.537)
 
 
 def test_monitor_bounds_keep_clear_of_yee_samples():
     step = 1 / 12
     for lower, upper in ((-0.5, 0.5), (-1.0 / 3, 1.25), (0.3, 0.3 + 7 * step)):
-        low, high = ff.monitor_bounds(lower, upper, step)
+        low, high = farfield_transform.monitor_bounds(lower, upper, step)
         assert low < lower and high > upper
         for bound in (low, high):
             frac = (bound / (0.5 * step)) % 1.0
             assert 0.1 <= frac <= 0.9
     for position in (0.0, 4 * step, 0.3, 0.5 * step + 1e-13):
-        low, high = ff.normal_bounds(position, step)
+        low, high = farfield_transform.normal_bounds(position, step)
         for parity in (0, 1):
-            kept = ff.lattice_positions(low, high, step, parity)
+            kept = farfield_transform.lattice_positions(low, high, step, parity)
             assert kept.size == 2 and kept[0] <= position + 1e-9 <= kept[1] + 2e-9
 
 
 def test_fit_to_lattice_drops_only_zero_padding():
     data = np.zeros((1, 5, 3), dtype=complex)
     data[0, :3] = 1.0
-    assert ff.fit_to_lattice(data, (1, 3, 3)).shape == (1, 3, 3)
+    assert farfield_transform.fit_to_lattice(data, (1, 3, 3)).shape == (1, 3, 3)
     data[0, 4] = 1.0
     with pytest.raises(RuntimeError):
-        ff.fit_to_lattice(data, (1, 3, 3))
+        farfield_transform.fit_to_lattice(data, (1, 3, 3))
 
 
 def test_far_zone_of_a_current_element_is_the_hertzian_dipole():
@@ -77,10 +77,10 @@ def test_far_zone_of_a_current_element_is_the_hertzian_dipole():
     directions = np.stack([np.sin(theta), np.zeros_like(theta), np.cos(theta)], axis=1)
     n_vec = np.zeros((1, theta.size, 3), dtype=complex)
     n_vec[..., 2] = 0.7
-    e, h = ff.far_zone_fields(n_vec, np.zeros_like(n_vec), directions, [k], 1.0e4, dims=3)
-    u = ff.radiation_intensity(e, h, directions, 1.0e4)
+    e, h = farfield_transform.far_zone_fields(n_vec, np.zeros_like(n_vec), directions, [k], 1.0e4, dims=3)
+    u = pattern.radiation_intensity(e, h, directions, 1.0e4)
     power = k**2 * 0.7**2 / (6 * np.pi)
-    assert np.allclose(ff.directivity(u, [power])[0], 1.5 * np.sin(theta) ** 2, atol=1e-12)
+    assert np.allclose(pattern.directivity(u, [power])[0], 1.5 * np.sin(theta) ** 2, atol=1e-12)
     # H = r̂ × E: a transverse plane wave, Poynting vector along r̂
     assert np.allclose(np.einsum("fpk,pk->fp", e, directions), 0.0, atol=1e-15)
 
@@ -91,8 +91,8 @@ def test_far_zone_of_a_magnetic_current_element_is_dual():
     directions = np.array([[1.0, 0.0, 0.0], [0.0, 1.0, 0.0]])
     l_vec = np.zeros((1, 2, 3), dtype=complex)
     l_vec[..., 2] = 1.0
-    e, _ = ff.far_zone_fields(np.zeros_like(l_vec), l_vec, directions, [k], 1.0e4, dims=3)
-    g = ff.far_zone_green([k], 1.0e4, 3)[0]
+    e, _ = farfield_transform.far_zone_fields(np.zeros_like(l_vec), l_vec, directions, [k], 1.0e4, dims=3)
+    g = farfield_transform.far_zone_green([k], 1.0e4, 3)[0]
     assert np.allclose(e[0, 0], -g * np.array([0.0, -1.0, 0.0]))  # −r̂ × ẑ = ŷ for r̂ = x̂
     assert np.allclose(e[0, 1], -g * np.array([1.0, 0.0, 0.0]))  # −ŷ × ẑ = −x̂
 
@@ -103,7 +103,7 @@ def test_2d_far_zone_factor_is_the_hankel_asymptote():
     k = 2 * np.pi * np.array([0.8, 1.0])
     r = 1.0e3
     exact = -(k / 4) * hankel1(0, k * r)  # line-source field per unit current, Meep's green2d
-    assert np.allclose(ff.far_zone_green(k, r, 2), exact, rtol=1e-4)
+    assert np.allclose(farfield_transform.far_zone_green(k, r, 2), exact, rtol=1e-4)
 
 
 def test_separable_sum_equals_the_direct_sum():
@@ -111,7 +111,7 @@ def test_separable_sum_equals_the_direct_sum():
     x = np.linspace(-0.4, 0.5, 7)
     y = np.linspace(-0.3, 0.2, 5)
     amplitude = rng.normal(size=(2, 7, 5)) + 1j * rng.normal(size=(2, 7, 5))
-    sheet = ff.CurrentSheet(axes=(0, 1), coordinates=(x, y), normal_axis=2, normal_position=0.37,
+    sheet = farfield_transform.CurrentSheet(axes=(0, 1), coordinates=(x, y), normal_axis=2, normal_position=0.37,
                             direction=np.array([0.0, 1.0, 0.0]), magnetic=False, amplitude=amplitude)
     xx, yy = np.meshgrid(x, y, indexing="ij")
     points = np.stack([xx.ravel(), yy.ravel(), np.full(xx.size, 0.37)], axis=1)
@@ -123,7 +123,7 @@ def test_separable_sum_equals_the_direct_sum():
                        np.stack([np.sin(th), 0 * th, np.cos(th)], axis=1),
                        np.stack([0 * th, np.sin(th), np.cos(th)], axis=1),
                        np.array([[0.0, 0.0, 1.0], [0.0, 0.0, -1.0]])):
-        got = ff.sheet_sum(sheet, directions, k)
+        got = farfield_transform.sheet_sums([sheet], directions, k)[0]
         for f in range(2):
             direct = np.exp(-1j * k[f] * directions @ points.T) @ amplitude[f].ravel()
             assert np.allclose(got[f], direct, rtol=1e-12, atol=1e-12)

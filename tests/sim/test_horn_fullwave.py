@@ -17,7 +17,7 @@ import numpy as np
 import pytest
 
 from hornproof.analytic.geometry import HornGeometry
-from hornproof.sim.farfield import ClosedSurface
+from hornproof.sim.surface import ClosedSurface
 from hornproof.sim.settings import FdtdSettings
 from hornproof.units import SPEED_OF_LIGHT
 
@@ -129,10 +129,11 @@ def test_gentle_horn_directivity_matches_aperture_theory_at_16_cells():
 
 
 def test_coarse_staircase_is_flagged():
-    from hornproof.sim import model
+    from hornproof.sim.layout import plan_layout
+    from hornproof.sim.walls import staircase_warnings
 
-    layout = model.plan_layout(GENTLE, np.array([9e9, 10e9]), FdtdSettings(), 12)
-    assert model.staircase_warnings(layout, layout.meep_frequency(np.array([9e9, 10e9])))
+    layout = plan_layout(GENTLE, np.array([9e9, 10e9]), FdtdSettings(), 12)
+    assert staircase_warnings(layout, layout.meep_frequency(np.array([9e9, 10e9])))
 
 
 @pytest.mark.fullwave

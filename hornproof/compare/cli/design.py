@@ -18,7 +18,9 @@ import numpy as np
 from ...errors import InputError
 from ...units import GHZ, MM
 from ..output.folders import check_new_file
-from ..output.summary import SAFETY_NOTE, jsonable, safety_lines, emit
+from ..output.json_document import jsonable
+from ..output.summary import SAFETY_NOTE
+from ..output.terminal import emit, safety_lines
 
 
 def add_design_arguments(parser):

@@ -128,9 +128,9 @@ def dispatch(args):
 def main(argv=None):
     parser = build_parser()
     args = parser.parse_args(argv)
-    from ..output import summary
+    from ..output import terminal
 
-    summary.set_result_stream(sys.stdout)
+    terminal.set_result_stream(sys.stdout)
     previous_sigterm = signal.signal(signal.SIGTERM, _terminate)
     try:
         if args.command == "regress":  # regress keeps its own standard-output discipline
@@ -163,7 +163,7 @@ def main(argv=None):
         return 2 if error.filename else 3
     finally:
         signal.signal(signal.SIGTERM, previous_sigterm)
-        summary.set_result_stream(None)
+        terminal.set_result_stream(None)
         _quiet_meep_exit()
 
 

@@ -4,7 +4,8 @@ import numpy as np
 
 from ...analytic.predict import predict
 from ..case.casefile import load_case
-from ..output.summary import base_summary, emit_result, safety_lines
+from ..output.summary import base_summary
+from ..output.terminal import emit_result, safety_lines
 
 
 def predict_case(case, equivalent="huygens"):

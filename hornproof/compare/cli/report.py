@@ -1,10 +1,10 @@
 """``hornproof report RESULT_DIR``: rebuild report.html from stored results."""
 
-import json
 from pathlib import Path
 
 from ...errors import InputError
-from ..output.summary import emit
+from ..output.result_json import read_result_json
+from ..output.terminal import emit
 
 
 def report_command(args):
@@ -18,10 +18,7 @@ def report_command(args):
     elif (folder / "result.json").is_file():
         from ..report.html import build_report
 
-        try:
-            json.loads((folder / "result.json").read_text())
-        except json.JSONDecodeError as error:
-            raise InputError(f"{folder / 'result.json'}: not valid JSON ({error.msg}, line {error.lineno})")
+        read_result_json(folder / "result.json")
         path = build_report(folder)
     else:
         raise InputError(f"{folder}: no result.json or sweep.json in this folder")

@@ -8,7 +8,9 @@ import numpy as np
 from ...errors import InputError
 from ..case.casefile import load_case
 from ..output.folders import check_output_folder, publish_folder
-from ..output.summary import base_summary, emit_result, jsonable, safety_lines
+from ..output.json_document import jsonable
+from ..output.summary import base_summary
+from ..output.terminal import emit_result, safety_lines
 
 
 def simulate_case(case, cells_per_wavelength, out_dir, *, force=False, image=False):

@@ -28,10 +28,11 @@ from ...errors import InputError
 from ..case.casefile import load_case
 from ..case.sweepspec import PARAMETER_LABELS
 from ..output.folders import check_output_folder
-from ..output.summary import SAFETY_NOTE, dumps, emit_result, jsonable, safety_lines
+from ..output.json_document import jsonable
+from ..output.summary import SAFETY_NOTE
+from ..output.sweep_json import SWEEP_SCHEMA, write_sweep_json
+from ..output.terminal import emit_result, safety_lines
 from ..report.format import MISSING_VALUE
-
-SCHEMA = "hornproof.sweep/1"
 
 #: default grids of a sweep point, relative to the case's sweep.cells_per_wavelength: three
 #: grids give a GCI with an observed order (Celik et al. 2008); two grids force the assumed
@@ -174,7 +175,7 @@ def run_sweep(case, out_dir, *, dims=None, ladder=None, analytic_only=False, for
         breakdown["total"] = breakdown_threshold(values_a, total_err, usable_u, tolerance)
     label, unit = PARAMETER_LABELS[spec.parameter]
     document = {
-        "schema": SCHEMA, "case": case.name, "title": case.title, "case_sha256": case.sha256,
+        "schema": SWEEP_SCHEMA, "case": case.name, "title": case.title, "case_sha256": case.sha256,
         "parameter": {"name": spec.parameter, "label": label, "unit": unit, "values": values,
                       "held_fixed": "flare half-angles" if spec.parameter == "flare_length_mm" else "flare length"},
         "frequency_ghz": float(freqs[centre] / 1e9),
@@ -201,11 +202,10 @@ def run_sweep(case, out_dir, *, dims=None, ladder=None, analytic_only=False, for
     }
     document = jsonable(document)
     if _is_master():
-        from ...atomic import write_text_atomic
         from ..report.html import build_sweep_report
 
         _plot_sweep(out_dir, document)
-        write_text_atomic(out_dir / "sweep.json", dumps(document))
+        write_sweep_json(out_dir / "sweep.json", document)
         build_sweep_report(out_dir)
     return document
 

@@ -18,7 +18,8 @@ import numpy as np
 from ..case.casefile import load_case
 from ..output.folders import check_output_folder, publish_folder
 from ..cli.predict import predict_case
-from ..output.summary import dumps, emit_result, jsonable, safety_lines
+from ..output.json_document import jsonable
+from ..output.terminal import emit_result, safety_lines
 from ..report.format import MISSING_VALUE
 
 #: case-file check name -> comparison metrics it applies to (verdict.COMPARED_FIGURES keys)
@@ -72,7 +73,7 @@ def _relative_cost(cpw, dims):
 def resource_line(case, cells_per_wavelength):
     """One line: grid cells and memory the run will take (``sim.estimate``), before it runs."""
     from ...sim.estimate import available_memory_bytes, estimate_for_layout
-    from ...sim.model import plan_layout
+    from ...sim.layout import plan_layout
 
     layout = plan_layout(case.horn, case.frequencies, case.fdtd, cells_per_wavelength)
     est = estimate_for_layout(layout, len(case.frequencies), use_symmetry=case.fdtd.use_symmetry)
@@ -303,8 +304,8 @@ def _plots(folder, case, summary, models, sim_results, ladder, uncertainty, esti
 
 
 def _write_outputs(folder, case, summary, sim_results, ladder):
-    from ...atomic import write_text_atomic
     from ..output.fields_h5 import write_fields_h5
+    from ..output.result_json import write_result_json
     from ..output.touchstone import write_s1p
 
     finest = sim_results[int(np.argmax(ladder))]
@@ -312,7 +313,7 @@ def _write_outputs(folder, case, summary, sim_results, ladder):
     s11 = np.asarray(finest.extra["s11_real"]) + 1j * np.asarray(finest.extra["s11_imag"])
     write_s1p(folder / "s11.s1p", case.frequencies, s11, case_name=case.name,
               solver_version=str(finest.run.get("meep_version", "")))
-    write_text_atomic(folder / "result.json", dumps(summary))
+    write_result_json(folder / "result.json", summary)
 
 
 def solver_block(case, sim_results, ladder, seconds):

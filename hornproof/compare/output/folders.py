@@ -12,9 +12,11 @@ import tempfile
 from pathlib import Path
 
 from ...errors import InputError
+from .result_json import RESULT_SCHEMA
+from .sweep_json import SWEEP_SCHEMA
 
-#: schema of the marker file that makes a folder a hornproof result of each kind
-RESULT_MARKERS = {"result.json": "hornproof.result/", "sweep.json": "hornproof.sweep/"}
+#: schema family (any version) of the marker file that makes a folder a hornproof result of each kind
+RESULT_MARKERS = {"result.json": RESULT_SCHEMA.split("/")[0] + "/", "sweep.json": SWEEP_SCHEMA.split("/")[0] + "/"}
 
 
 def _is_result_folder(folder, markers):

@@ -1,44 +1,26 @@
-"""Reading ``result.json`` (schema ``hornproof.result/1``), the summary of a verify or simulate run.
+"""``result.json``: the summary of a verify or simulate run (schema ``hornproof.result/1``).
 
-The summary is assembled in :mod:`hornproof.compare.output.summary`; its keys are described in
-DEVELOPERS.md ("Result summary"). Readers refuse any other schema string with one line naming
-the file and the schema this version reads.
+The keys are described in :mod:`hornproof.compare.report.html` and ARCHITECTURE.md; keys may be
+added, none is renamed without a schema bump.
 """
 
-import json
-from pathlib import Path
-
-from ...errors import InputError
+from ...atomic import write_text_atomic
+from .json_document import dumps, read_json_document, stamped
 
 RESULT_SCHEMA = "hornproof.result/1"
 
 
-def read_schema_json(path, schema):
-    """Load the JSON object in ``path`` and check that its ``schema`` key equals ``schema``.
+def write_result_json(path, summary):
+    """Write the summary ``result.json`` atomically with ``"schema": "hornproof.result/1"``.
 
-    Raises
-    ------
-    InputError
-        The file is missing, is not JSON, is not an object, or carries another schema (one
-        line naming the file and the expected schema, with a hint).
+    NaN and infinities become ``null``. A summary carrying a different schema is refused
+    (``ValueError``): it was built for another format version. Returns the JSON-ready summary.
     """
-    try:
-        data = json.loads(Path(path).read_text(encoding="utf-8"))
-    except FileNotFoundError:
-        raise InputError(f"{path}: not found") from None
-    except json.JSONDecodeError as error:
-        raise InputError(f"{path}: not valid JSON ({error.msg}, line {error.lineno})") from None
-    if not isinstance(data, dict):
-        raise InputError(f"{path}: expected a JSON object")
-    found = data.get("schema")
-    if found != schema:
-        raise InputError(
-            f"{path}: schema: {found!r} is not {schema!r}; this hornproof reads only {schema} — "
-            "re-run the case with this version, or use the hornproof version that wrote it"
-        )
-    return data
+    document = stamped(summary, RESULT_SCHEMA)
+    write_text_atomic(path, dumps(document))
+    return document
 
 
 def read_result_json(path):
-    """The ``hornproof.result/1`` summary in ``path`` as a dict (see :func:`read_schema_json`)."""
-    return read_schema_json(path, RESULT_SCHEMA)
+    """Read a ``result.json``; refuse other schemas with a one-line ``InputError`` and a hint."""
+    return read_json_document(path, RESULT_SCHEMA)

@@ -1,14 +1,25 @@
-"""Reading ``sweep.json`` (schema ``hornproof.sweep/1``), the summary of ``hornproof sweep``.
+"""``sweep.json``: the document of a sweep run (schema ``hornproof.sweep/1``).
 
-Its keys are described in :mod:`hornproof.compare.report.sweep_page`. Readers refuse any
-other schema string with one line naming the file and the schema this version reads.
+The keys are described in :mod:`hornproof.compare.report.html`.
 """
 
-from .result_json import read_schema_json
+from ...atomic import write_text_atomic
+from .json_document import dumps, read_json_document, stamped
 
 SWEEP_SCHEMA = "hornproof.sweep/1"
 
 
+def write_sweep_json(path, document):
+    """Write ``sweep.json`` atomically with ``"schema": "hornproof.sweep/1"``; NaN -> ``null``.
+
+    A document carrying a different schema is refused (``ValueError``). Returns the JSON-ready
+    document.
+    """
+    document = stamped(document, SWEEP_SCHEMA)
+    write_text_atomic(path, dumps(document))
+    return document
+
+
 def read_sweep_json(path):
-    """The ``hornproof.sweep/1`` summary in ``path`` as a dict (refuses other schemas)."""
-    return read_schema_json(path, SWEEP_SCHEMA)
+    """Read a ``sweep.json``; refuse other schemas with a one-line ``InputError`` and a hint."""
+    return read_json_document(path, SWEEP_SCHEMA)

@@ -26,12 +26,14 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from ... import __version__ as hornproof_version
 from ...atomic import write_text_atomic
+from ...units import GHZ
 
 __all__ = ["OnePortData", "write_s1p", "read_s1p"]
 
 #: Touchstone frequency-unit keywords and their size in Hz (spec: option line).
-FREQUENCY_UNITS = {"HZ": 1.0, "KHZ": 1e3, "MHZ": 1e6, "GHZ": 1e9}
+FREQUENCY_UNITS = {"HZ": 1.0, "KHZ": 1e3, "MHZ": 1e6, "GHZ": GHZ}
 
 REFERENCE_NOTE = "reference impedance: the guide's TE10 wave impedance, normalised"
 
@@ -113,8 +115,6 @@ def write_s1p(path, frequencies, s11, *, case_name, solver_version, version=1,
     if not (reference_resistance > 0 and math.isfinite(reference_resistance)):
         raise ValueError("reference_resistance: must be a positive number of ohm")
     created = created or datetime.datetime.now(datetime.timezone.utc)
-    from ... import __version__ as hornproof_version
-
     lines = [
         f"! hornproof {hornproof_version} one-port reflection of the horn feed",
         f"! case: {_clean_comment(case_name)}",
@@ -138,7 +138,7 @@ def write_s1p(path, frequencies, s11, *, case_name, solver_version, version=1,
         lines.append(option)
     lines.append("! freq_GHz  re(S11)  im(S11)")
     for f, s in zip(frequencies, s11):
-        lines.append(f"{f / 1e9:.15g} {s.real:.17g} {s.imag:.17g}")
+        lines.append(f"{f / GHZ:.15g} {s.real:.17g} {s.imag:.17g}")
     if version == 2:
         lines.append("[End]")
     text = "\n".join(lines) + "\n"
@@ -147,6 +147,73 @@ def write_s1p(path, frequencies, s11, *, case_name, solver_version, version=1,
 
 
 _KEYWORD = re.compile(r"^\[([^\]]+)\]\s*(.*)$")
+#: keywords of Touchstone 2.0 that carry nothing a one-port reader needs
+_IGNORED_KEYWORDS = ("network data", "matrix format", "begin information", "end information",
+                     "two-port data order")
+
+
+def _read_keyword(keyword, header, where):
+    """Apply one ``[Keyword] value`` line to ``header`` (Touchstone 2.0)."""
+    name, value = keyword.group(1).strip().lower(), keyword.group(2).strip()
+    if name == "version":
+        header["version"] = value
+    elif name == "number of ports":
+        header["declared_ports"] = int(value)
+    elif name == "number of frequencies":
+        header["declared_frequencies"] = int(value)
+    elif name == "reference":
+        header["resistance"] = float(value.split()[0])
+    elif name == "end":
+        header["ended"] = True
+    elif name not in _IGNORED_KEYWORDS:
+        raise ValueError(f"{where}: unsupported keyword [{keyword.group(1)}]")
+
+
+def _read_option_line(text, header, where):
+    """Apply the option line ``# <unit> <parameter> <format> R <ohm>`` to ``header``."""
+    if header["option_seen"]:
+        raise ValueError(f"{where}: second option line")
+    header["option_seen"] = True
+    tokens = text[1:].upper().split()
+    i = 0
+    while i < len(tokens):
+        token = tokens[i]
+        if token in FREQUENCY_UNITS:
+            header["unit"] = token
+        elif token in ("RI", "MA", "DB"):
+            header["data_format"] = token
+        elif token in ("S", "Y", "Z", "H", "G"):
+            header["parameter"] = token
+        elif token == "R" and i + 1 < len(tokens):
+            header["resistance"] = float(tokens[i + 1])
+            i += 1
+        else:
+            raise ValueError(f"{where}: unknown option {token!r}")
+        i += 1
+
+
+def _complex_values(first, second, data_format):
+    """S from a data line's two numbers: RI (re, im), MA (|S|, deg) or DB (20 log10 |S|, deg)."""
+    if data_format == "RI":
+        return first + 1j * second
+    if data_format == "MA":
+        return first * np.exp(1j * np.radians(second))
+    return 10.0 ** (first / 20.0) * np.exp(1j * np.radians(second))
+
+
+def _checked_table(path, header, numbers):
+    """The data as rows (freq, value, value), checked against the header."""
+    if header["parameter"] != "S":
+        raise ValueError(f"{path}: only S parameters are supported, file has {header['parameter']}")
+    if header["declared_ports"] not in (None, 1):
+        raise ValueError(f"{path}: [Number of Ports] is {header['declared_ports']}, expected 1")
+    if len(numbers) % 3:
+        raise ValueError(f"{path}: data is not in triples (freq, value, value)")
+    table = np.array(numbers, dtype=float).reshape(-1, 3)
+    declared = header["declared_frequencies"]
+    if declared is not None and declared != len(table):
+        raise ValueError(f"{path}: [Number of Frequencies] says {declared}, found {len(table)}")
+    return table
 
 
 def read_s1p(path):
@@ -163,77 +230,28 @@ def read_s1p(path):
     with open(path, encoding="ascii", errors="replace") as handle:
         raw_lines = handle.read().splitlines()
     comments, numbers = [], []
-    unit, data_format, parameter, resistance = "GHZ", "MA", "S", 50.0  # spec defaults
-    version, option_seen, ended = "1", False, False
-    declared_ports = declared_frequencies = None
+    header = {"unit": "GHZ", "data_format": "MA", "parameter": "S", "resistance": 50.0,  # spec defaults
+              "version": "1", "option_seen": False, "ended": False,
+              "declared_ports": None, "declared_frequencies": None}
     for number, raw in enumerate(raw_lines, start=1):
         where = f"{path}: line {number}"
-        text, _, comment = raw.partition("!")
-        if _:
+        text, has_comment, comment = raw.partition("!")
+        if has_comment:
             comments.append(comment.strip())
         text = text.strip()
-        if not text or ended:
+        if not text or header["ended"]:
             continue
         keyword = _KEYWORD.match(text)
         if keyword:
-            name, value = keyword.group(1).strip().lower(), keyword.group(2).strip()
-            if name == "version":
-                version = value
-            elif name == "number of ports":
-                declared_ports = int(value)
-            elif name == "number of frequencies":
-                declared_frequencies = int(value)
-            elif name == "reference":
-                resistance = float(value.split()[0])
-            elif name == "end":
-                ended = True
-            elif name in ("network data", "matrix format", "begin information",
-                          "end information", "two-port data order"):
-                pass
-            else:
-                raise ValueError(f"{where}: unsupported keyword [{keyword.group(1)}]")
-            continue
-        if text.startswith("#"):
-            if option_seen:
-                raise ValueError(f"{where}: second option line")
-            option_seen = True
-            tokens = text[1:].upper().split()
-            i = 0
-            while i < len(tokens):
-                token = tokens[i]
-                if token in FREQUENCY_UNITS:
-                    unit = token
-                elif token in ("RI", "MA", "DB"):
-                    data_format = token
-                elif token in ("S", "Y", "Z", "H", "G"):
-                    parameter = token
-                elif token == "R" and i + 1 < len(tokens):
-                    resistance = float(tokens[i + 1])
-                    i += 1
-                else:
-                    raise ValueError(f"{where}: unknown option {token!r}")
-                i += 1
-            continue
-        try:
-            numbers.extend(float(t) for t in text.split())
-        except ValueError:
-            raise ValueError(f"{where}: expected numbers, got {text!r}") from None
-    if parameter != "S":
-        raise ValueError(f"{path}: only S parameters are supported, file has {parameter}")
-    if declared_ports not in (None, 1):
-        raise ValueError(f"{path}: [Number of Ports] is {declared_ports}, expected 1")
-    if len(numbers) % 3:
-        raise ValueError(f"{path}: data is not in triples (freq, value, value)")
-    table = np.array(numbers, dtype=float).reshape(-1, 3)
-    if declared_frequencies is not None and declared_frequencies != len(table):
-        raise ValueError(f"{path}: [Number of Frequencies] says {declared_frequencies}, "
-                         f"found {len(table)}")
-    frequencies = table[:, 0] * FREQUENCY_UNITS[unit]
-    first, second = table[:, 1], table[:, 2]
-    if data_format == "RI":
-        s11 = first + 1j * second
-    elif data_format == "MA":
-        s11 = first * np.exp(1j * np.radians(second))
-    else:  # DB: 20 log10 |S| and angle in degrees
-        s11 = 10.0 ** (first / 20.0) * np.exp(1j * np.radians(second))
-    return OnePortData(frequencies, s11, resistance, version, comments)
+            _read_keyword(keyword, header, where)
+        elif text.startswith("#"):
+            _read_option_line(text, header, where)
+        else:
+            try:
+                numbers.extend(float(t) for t in text.split())
+            except ValueError:
+                raise ValueError(f"{where}: expected numbers, got {text!r}") from None
+    table = _checked_table(path, header, numbers)
+    frequencies = table[:, 0] * FREQUENCY_UNITS[header["unit"]]
+    s11 = _complex_values(table[:, 1], table[:, 2], header["data_format"])
+    return OnePortData(frequencies, s11, header["resistance"], header["version"], comments)

@@ -51,7 +51,7 @@ def model_image(layout, cuts, path):
 
     Parameters
     ----------
-    layout : hornproof.sim.model.Layout
+    layout : hornproof.sim.layout.Layout
         The cell layout the cuts were taken from (lengths in Meep units; shown in mm).
     cuts : sequence of hornproof.sim.metal_map.MetalCut
         One or two axial cuts (one panel each).

@@ -4,7 +4,6 @@ reference reader, RFC 8259 (JSON has no NaN), ISO 8601 time stamps and atomic re
 import datetime
 import json
 import os
-from types import SimpleNamespace
 
 import numpy as np
 import pytest
@@ -13,38 +12,36 @@ h5py = pytest.importorskip("h5py")
 
 from hornproof.atomic import atomic_path, write_text_atomic  # noqa: E402
 from hornproof.errors import InputError  # noqa: E402
-from hornproof.compare.output.fields_h5 import (  # noqa: E402
-    FIELDS_SCHEMA,
-    RESULT_SCHEMA,
-    read_fields_h5,
-    read_result_json,
-    write_fields_h5,
-    write_result_json,
-)
+from hornproof.compare.output.fields_h5 import FIELDS_SCHEMA, read_fields_h5, write_fields_h5  # noqa: E402
+from hornproof.compare.output.result_json import RESULT_SCHEMA, read_result_json, write_result_json  # noqa: E402
+from hornproof.sim.result import SimResult  # noqa: E402
 
 # HDF5 File Format Specification, "Format Signature" of the superblock: these 8 bytes.
 HDF5_SIGNATURE = b"\x89HDF\r\n\x1a\n"
 
 
 def _result(nf=3, ntheta=7, with_full=True):
-    """A result object shaped like the FDTD ModelResult (field names from DEVELOPERS.md);
-    the numbers are arbitrary test data."""
+    """A ``sim.result.SimResult`` as a run returns it (the writer's one input); the numbers are
+    arbitrary test data."""
     theta = np.linspace(-90.0, 90.0, ntheta)
     rng = np.random.default_rng(1)
     full = None
     if with_full:
-        full = SimpleNamespace(theta_deg=np.linspace(0, 180, 5), phi_deg=np.linspace(0, 360, 9),
-                               directivity_dbi=rng.normal(size=(nf, 5, 9)))
-    return SimpleNamespace(
+        full = {"theta_deg": np.linspace(0, 180, 5), "phi_deg": np.linspace(0, 360, 9),
+                "directivity_dbi": rng.normal(size=(nf, 5, 9))}
+    nan = np.full(nf, np.nan)
+    return SimResult(
         name="fdtd", dims=3, frequencies=np.linspace(9e9, 11e9, nf), theta_deg=theta,
         h_plane_dbi=rng.normal(size=(nf, ntheta)), e_plane_dbi=rng.normal(size=(nf, ntheta)),
-        h_plane_cross_dbi=rng.normal(size=(nf, ntheta)) - 30,
-        full_pattern=full,
-        extra={"s11_real": rng.normal(size=nf) * 0.1, "s11_imag": rng.normal(size=nf) * 0.1,
+        directivity_dbi=nan, hpbw_h_deg=nan, hpbw_e_deg=nan, first_null_h_deg=nan,
+        first_null_e_deg=nan, sll_h_db=nan, sll_e_db=nan,
+        extra={"h_plane_cross_dbi": rng.normal(size=(nf, ntheta)) - 30,
+               "s11_real": rng.normal(size=nf) * 0.1, "s11_imag": rng.normal(size=nf) * 0.1,
                "incident_power": np.full(nf, 2.0), "reflected_power": np.full(nf, 0.02),
                "radiated_power": np.full(nf, 1.98)},
-        solver_version="1.25.0", cells_per_wavelength=16.0, resolution=533.3,
-        wall_thickness_modelled=3.75e-3,
+        run={"meep_version": "1.25.0", "cells_per_wavelength": 16.0, "resolution_cells_per_m": 533.3,
+             "wall_thickness_modelled_m": 3.75e-3},
+        full_pattern=full,
     )
 
 
@@ -88,7 +85,7 @@ def test_fields_round_trip(tmp_path):
     np.testing.assert_array_equal(back["frequencies"], result.frequencies)
     np.testing.assert_array_equal(back["patterns"]["h_plane_dbi"], result.h_plane_dbi)
     np.testing.assert_array_equal(back["full_pattern"]["directivity_dbi"],
-                                  result.full_pattern.directivity_dbi)
+                                  result.full_pattern["directivity_dbi"])
     np.testing.assert_array_equal(back["s11"], result.extra["s11_real"]
                                   + 1j * result.extra["s11_imag"])
     np.testing.assert_array_equal(back["power"]["radiated"], result.extra["radiated_power"])
@@ -96,14 +93,21 @@ def test_fields_round_trip(tmp_path):
     assert back["units"]["/full_pattern/phi_deg"] == "deg"
 
 
-def test_fields_accepts_a_dict_and_optional_parts_missing(tmp_path):
-    result = {"frequencies": [10e9], "theta_deg": [0.0, 1.0], "h_plane_dbi": [[1.0, 2.0]]}
+def test_fields_with_optional_parts_missing(tmp_path):
+    # a 2D H-plane model: no S11, full pattern, powers or metadata; its E-plane cut is NaN
+    nan = np.full(1, np.nan)
+    result = SimResult(name="fdtd", dims=2, frequencies=[10e9], theta_deg=[0.0, 1.0],
+                       h_plane_dbi=[[1.0, 2.0]], e_plane_dbi=[[np.nan, np.nan]], directivity_dbi=nan,
+                       hpbw_h_deg=nan, hpbw_e_deg=nan, first_null_h_deg=nan, first_null_e_deg=nan,
+                       sll_h_db=nan, sll_e_db=nan)
     path = tmp_path / "fields.h5"
     write_fields_h5(path, result, case_sha256="1" * 64, case_name="bare")
     back = read_fields_h5(path)
     assert back["s11"] is None and back["full_pattern"] is None and back["power"] == {}
-    assert "e_plane_dbi" not in back["patterns"]
+    assert "h_plane_cross_dbi" not in back["patterns"]
+    assert np.all(np.isnan(back["patterns"]["e_plane_dbi"]))
     assert back["attributes"]["solver_version"] == "unknown"
+    assert back["attributes"]["dims"] == 2
 
 
 def test_bad_shape_leaves_the_old_file_and_no_temporary(tmp_path):
@@ -187,12 +191,11 @@ def test_atomic_writer_keeps_old_content_on_failure(tmp_path):
 
 
 def test_fields_from_the_physics_side_result_class(tmp_path):
-    # sim.run.SimResult keeps its metadata in a ``run`` dict (meep_version,
+    # sim.result.SimResult keeps its metadata in a ``run`` dict (meep_version,
     # resolution_cells_per_m, wall_thickness_modelled_m, power_units): the writer must find it
-    run_module = pytest.importorskip("hornproof.sim.run")
     base = _result(nf=2, ntheta=5)
     nan = np.full(2, np.nan)
-    result = run_module.SimResult(
+    result = SimResult(
         name="fdtd", dims=3, frequencies=base.frequencies, theta_deg=base.theta_deg,
         h_plane_dbi=base.h_plane_dbi, e_plane_dbi=base.e_plane_dbi, directivity_dbi=nan,
         hpbw_h_deg=nan, hpbw_e_deg=nan, first_null_h_deg=nan, first_null_e_deg=nan,
@@ -200,10 +203,10 @@ def test_fields_from_the_physics_side_result_class(tmp_path):
         run={"meep_version": "1.25.0", "resolution_cells_per_m": 640.0,
              "wall_thickness_modelled_m": 2.5e-3, "cells_per_wavelength": 12.0,
              "power_units": "Meep units (relative)"},
-        full_pattern={"theta_deg": base.full_pattern.theta_deg,
-                      "phi_deg": base.full_pattern.phi_deg,
-                      "directivity_dbi": base.full_pattern.directivity_dbi,
-                      "co_polar_dbi": base.full_pattern.directivity_dbi - 0.1})
+        full_pattern={"theta_deg": base.full_pattern["theta_deg"],
+                      "phi_deg": base.full_pattern["phi_deg"],
+                      "directivity_dbi": base.full_pattern["directivity_dbi"],
+                      "co_polar_dbi": base.full_pattern["directivity_dbi"] - 0.1})
     path = tmp_path / "fields.h5"
     write_fields_h5(path, result, case_sha256="c" * 64, case_name="physics")
     back = read_fields_h5(path)
@@ -212,20 +215,3 @@ def test_fields_from_the_physics_side_result_class(tmp_path):
     assert back["attributes"]["wall_thickness_modelled_m"] == 2.5e-3
     assert back["units"]["/power/radiated"] == "Meep units (relative)"
     assert "co_polar_dbi" in back["full_pattern"]
-
-
-def test_result_s11_to_touchstone_reads_in_scikit_rf(tmp_path):
-    # scikit-rf as the reference Touchstone reader (see test_touchstone.py)
-    skrf = pytest.importorskip("skrf")
-    from hornproof.compare.output.fields_h5 import write_result_s1p
-
-    result = _result(nf=4)
-    path = tmp_path / "feed.s1p"
-    write_result_s1p(path, result, case_name="demo")
-    network = skrf.Network(str(path))
-    np.testing.assert_allclose(network.f, result.frequencies, rtol=1e-12)
-    np.testing.assert_allclose(network.s[:, 0, 0],
-                               result.extra["s11_real"] + 1j * result.extra["s11_imag"], atol=1e-9)
-    assert "! solver: meep 1.25.0" in path.read_text()
-    with pytest.raises(ValueError, match="no S11"):
-        write_result_s1p(tmp_path / "none.s1p", {"frequencies": [1e9]}, case_name="x")

@@ -10,7 +10,7 @@ import numpy as np
 from hornproof.analytic.geometry import HornGeometry
 from hornproof.compare.report.model_image import metal_levels, model_image
 from hornproof.sim.metal_map import MetalCut
-from hornproof.sim.model import plan_layout
+from hornproof.sim.layout import plan_layout
 from hornproof.sim.settings import FdtdSettings
 
 WR90 = (22.86e-3, 10.16e-3)  # EIA RS-261 / IEC 60153-2 WR-90, 0.900 x 0.400 in (from memory)

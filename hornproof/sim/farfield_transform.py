@@ -1,182 +1,16 @@
-"""Closed near-to-far surface, radiated power and far-field directivity.
+"""The far-zone (r → ∞) transform of equivalent currents sampled on the Yee grid, in numpy.
 
-Power convention: Meep's flux is Re ∮ (E* × H) · n dA with no factor ½ (DFT amplitudes). The
-far-field Poynting vector is formed the same way, S = Re(E* × H), so directivity
-D = 4π r² S_r / P_rad (3D) or D₂ = 2π r S_r / P′ (2D, per unit length) is a ratio of like
-quantities. Mixing conventions halves (or doubles) D.
-
-The surface is a box around the antenna. A feed guide that leaves the box (it runs on into the
-PML) would carry its backward wave out through the box as if it were radiated; its outer
-footprint is therefore cut out of the back face, which is built from four strips (3D) or two
-segments (2D) around that footprint. Everything the guide carries inside stays uncounted; the
-currents on the outside of the guide wall behind the box are neglected (small when the
-back radiation is weak).
-
-Two far-field transforms of the same surface (``FdtdSettings.farfield_method``): "meep", Meep's
-near2far object and ``get_farfield`` point by point (``far_fields``; the full finite-distance
-Green's function per surface sample per direction, in C++), and "fast", the far-zone (r → ∞)
-radiation-vector sums in numpy over the same Yee-grid samples with the same quadrature weights
-(``add_current_monitors``, ``current_sheets``, ``fast_far_fields``; see the section below).
-Both return E and H at ``sim.model.FAR_FIELD_DISTANCE`` so the rest is shared.
+This is the "fast" far-field route (``FdtdSettings.farfield_method``): the radiation-vector sums
+over the same Yee-grid samples and quadrature weights that Meep's near2far uses, evaluated in
+numpy. The DFT monitors that feed it are added and read in :mod:`hornproof.sim.surface`; the
+result, E and H at ``sim.layout.FAR_FIELD_DISTANCE``, goes to :mod:`hornproof.sim.pattern`.
+Power convention as in :mod:`hornproof.sim.pattern` (Re E* × H, no factor ½).
 """
 
 from dataclasses import dataclass
 
 import numpy as np
 
-
-@dataclass(frozen=True)
-class ClosedSurface:
-    """An axis-aligned box (Meep coordinates) with an optional rectangular hole in its low-z face.
-
-    ``centre`` and ``half`` are tuples of length ``dims``; the last entry is the axial
-    direction (Meep z in 3D, Meep y in 2D). ``hole_half`` gives the transverse half sizes of
-    the hole (centred on the axis), or None.
-    """
-
-    dims: int
-    centre: tuple
-    half: tuple
-    hole_half: tuple = None
-
-    def regions(self):
-        """(centre, size, weight) of every face piece; weight is +1 / −1 for outward normals."""
-        d = self.dims
-        pieces = []
-        for axis in range(d):
-            for side in (-1, 1):
-                centre = list(self.centre)
-                size = [2 * h for h in self.half]
-                centre[axis] += side * self.half[axis]
-                size[axis] = 0.0
-                if axis == d - 1 and side == -1 and self.hole_half is not None:
-                    pieces += [(c, s, -1.0) for c, s in self._strips(centre)]
-                else:
-                    pieces.append((tuple(centre), tuple(size), float(side)))
-        return pieces
-
-    def _strips(self, face_centre):
-        """Back face minus the hole: 4 strips in 3D, 2 segments in 2D."""
-        d = self.dims
-        z = face_centre[d - 1]
-        hx = self.half[0]
-        fx = self.hole_half[0]
-        cx = self.centre[0]
-        strips = []
-        if d == 2:
-            for s in (-1, 1):
-                strips.append(((cx + s * (fx + hx) / 2, z), (hx - fx, 0.0)))
-            return strips
-        hy, fy = self.half[1], self.hole_half[1]
-        cy = self.centre[1]
-        for s in (-1, 1):
-            strips.append(((cx + s * (fx + hx) / 2, cy, z), (hx - fx, 2 * hy, 0.0)))
-            strips.append(((cx, cy + s * (fy + hy) / 2, z), (2 * fx, hy - fy, 0.0)))
-        return strips
-
-
-def add_surface_monitors(sim, surface, meep_frequencies):
-    """Near-to-far and flux monitors on the same closed surface. Returns (near2far, flux)."""
-    import meep as mp
-
-    freqs = np.asarray(meep_frequencies, dtype=float)
-    n2f_regions, flux_regions = [], []
-    for centre, size, weight in surface.regions():
-        c, s = mp.Vector3(*centre), mp.Vector3(*size)
-        n2f_regions.append(mp.Near2FarRegion(center=c, size=s, weight=weight))
-        flux_regions.append(mp.FluxRegion(center=c, size=s, weight=weight))
-    return sim.add_near2far(freqs, *n2f_regions), sim.add_flux(freqs, *flux_regions)
-
-
-def far_fields(sim, near2far, points, n_frequencies):
-    """Far E and H at Meep points: complex arrays [nf, npoints, 3] each."""
-    e = np.empty((n_frequencies, len(points), 3), dtype=complex)
-    h = np.empty_like(e)
-    for j, p in enumerate(points):
-        ff = np.asarray(sim.get_farfield(near2far, p)).reshape(n_frequencies, 6)
-        e[:, j, :] = ff[:, :3]
-        h[:, j, :] = ff[:, 3:]
-    return e, h
-
-
-def radiation_intensity(e, h, directions, distance, dims=3):
-    """U = r² Re(E* × H)·r̂ (3D) or U′ = r Re(E* × H)·r̂ (2D), same convention as Meep's flux.
-
-    ``directions`` [npoints, 3] unit vectors; ``e``, ``h`` [nf, npoints, 3].
-    """
-    poynting = np.real(np.cross(np.conj(e), h))
-    radial = np.einsum("fpk,pk->fp", poynting, np.asarray(directions, dtype=float))
-    return radial * (distance**2 if dims == 3 else distance)
-
-
-def polarisation_split(e, co_vectors, cross_vectors):
-    """Fractions of |E|² in the co- and cross-polar unit vectors (Ludwig's third definition).
-
-    Reference: A. C. Ludwig, "The definition of cross polarization", IEEE Trans. Antennas
-    Propag. 21 (1973) 116–119 (definition 3). ``co_vectors``, ``cross_vectors`` [npoints, 3].
-    """
-    co = np.abs(np.einsum("fpk,pk->fp", e, co_vectors)) ** 2
-    cross = np.abs(np.einsum("fpk,pk->fp", e, cross_vectors)) ** 2
-    total = co + cross
-    with np.errstate(invalid="ignore", divide="ignore"):
-        return np.where(total > 0, co / total, 0.0), np.where(total > 0, cross / total, 0.0)
-
-
-def cut_directions(theta_deg, plane):
-    """Unit directions and Ludwig-3 co/cross vectors (E along y) on a principal-plane cut.
-
-    ``plane`` "h" (xz, φ = 0) or "e" (yz, φ = 90°); θ from the z axis, negative on the −x / −y
-    side. Returns (directions, co, cross), each [nθ, 3] in (x, y, z).
-    """
-    th = np.radians(np.asarray(theta_deg, dtype=float))
-    zeros = np.zeros_like(th)
-    if plane == "h":
-        directions = np.stack([np.sin(th), zeros, np.cos(th)], axis=1)
-        # φ = 0: co = φ̂ = ŷ, cross = θ̂
-        co = np.tile([0.0, 1.0, 0.0], (th.size, 1))
-        cross = np.stack([np.cos(th), zeros, -np.sin(th)], axis=1)
-    elif plane == "e":
-        directions = np.stack([zeros, np.sin(th), np.cos(th)], axis=1)
-        # φ = 90°: co = θ̂ (in the yz plane), cross = −φ̂ = x̂
-        co = np.stack([zeros, np.cos(th), -np.sin(th)], axis=1)
-        cross = np.tile([1.0, 0.0, 0.0], (th.size, 1))
-    else:
-        raise ValueError(f"plane must be 'h' or 'e', got {plane!r}")
-    return directions, co, cross
-
-
-def sphere_directions(theta_deg, phi_deg):
-    """Unit directions [nθ·nφ, 3] and Ludwig-3 co/cross vectors for E along y."""
-    th, ph = np.meshgrid(np.radians(theta_deg), np.radians(phi_deg), indexing="ij")
-    th, ph = th.ravel(), ph.ravel()
-    directions = np.stack([np.sin(th) * np.cos(ph), np.sin(th) * np.sin(ph), np.cos(th)], axis=1)
-    theta_hat = np.stack([np.cos(th) * np.cos(ph), np.cos(th) * np.sin(ph), -np.sin(th)], axis=1)
-    phi_hat = np.stack([-np.sin(ph), np.cos(ph), np.zeros_like(ph)], axis=1)
-    co = np.sin(ph)[:, None] * theta_hat + np.cos(ph)[:, None] * phi_hat
-    cross = np.cos(ph)[:, None] * theta_hat - np.sin(ph)[:, None] * phi_hat
-    return directions, co, cross
-
-
-def sphere_power(intensity, theta_deg, phi_deg):
-    """∮ U dΩ by the trapezoidal rule on a (θ, φ) grid; ``intensity`` [nf, nθ, nφ].
-
-    φ must cover [0, 360) uniformly (periodic); θ must run from 0 to 180 degrees.
-    """
-    th = np.radians(np.asarray(theta_deg, dtype=float))
-    dphi = 2 * np.pi / len(phi_deg)
-    over_phi = intensity.sum(axis=2) * dphi
-    return np.trapz(over_phi * np.sin(th)[None, :], th, axis=1)
-
-
-def directivity(intensity, radiated_power, dims=3):
-    """D = 4π U / P (3D) or D₂ = 2π U′ / P′ (2D); ``radiated_power`` [nf]."""
-    full_angle = 4 * np.pi if dims == 3 else 2 * np.pi
-    power = np.asarray(radiated_power, dtype=float)
-    return full_angle * intensity / power.reshape((-1,) + (1,) * (np.ndim(intensity) - 1))
-
-
-# --- fast far-zone transform (numpy) -----------------------------------------------------------
-#
 # Surface equivalence: on a closed surface S with outward normal n̂ the fields outside are those
 # radiated by J = n̂ × H and M = −n̂ × E on S. In the far zone (r → ∞) with Meep's e^{−iωt}
 # convention and ε0 = μ0 = 1 (η = 1, k = ω = 2πf):
@@ -429,11 +263,6 @@ def sheet_sums(sheets, directions, wavenumbers):
     return out
 
 
-def sheet_sum(sheet, directions, wavenumbers):
-    """Σ amplitude · e^{−ik r̂·r'} over one sheet: complex [nf, nd]."""
-    return sheet_sums([sheet], directions, wavenumbers)[0]
-
-
 def radiation_vectors(sheets, directions, wavenumbers):
     """N(r̂) and L(r̂) (Balanis ch. 12, in Meep's e^{−iωt}): complex [nf, nd, 3] each, in blocks of directions.
 
@@ -484,50 +313,6 @@ def far_zone_fields(n_vec, l_vec, directions, wavenumbers, distance, dims):
     e = green * (n_perp - np.cross(r_hat, l_vec))
     h = np.cross(r_hat, e)
     return e, h
-
-
-def _meep_component(name):
-    import meep as mp
-
-    return getattr(mp, name[0].upper() + name[1])
-
-
-def add_current_monitors(sim, surface, meep_frequencies):
-    """DFT monitors (Yee grid) of the tangential fields on every face piece of ``surface``.
-
-    Each monitor is a slab a fraction of a cell thick around its face (and as much wider), so
-    Meep keeps every Yee sample whose interpolation or quadrature weight on the face is non-zero.
-    Returns a list of (centre, size, weight, dft_fields, component names).
-    """
-    import meep as mp
-
-    freqs = np.asarray(meep_frequencies, dtype=float)
-    step = 1.0 / sim.resolution
-    monitors = []
-    for centre, size, weight in surface.regions():
-        normal_axis = next(a for a in range(surface.dims) if size[a] == 0.0)
-        names = [kind + "xyz"[axis] for axis in tangential_axes(normal_axis) for kind in "eh"]
-        bounds = [slab_bounds(centre, size, a, step) for a in range(surface.dims)]
-        dft = sim.add_dft_fields([_meep_component(n) for n in names], freqs,
-                                 center=mp.Vector3(*[0.5 * (lo + hi) for lo, hi in bounds]),
-                                 size=mp.Vector3(*[hi - lo for lo, hi in bounds]), yee_grid=True)
-        monitors.append((centre, size, weight, dft, names))
-    return monitors
-
-
-def current_sheets(sim, monitors, n_frequencies, dims):
-    """Read the monitors of ``add_current_monitors`` into CurrentSheet lists (all faces)."""
-    step = 1.0 / sim.resolution
-    sheets = []
-    for centre, size, weight, dft, names in monitors:
-        arrays = {}
-        for name in names:
-            per_f = [np.asarray(sim.get_dft_array(dft, _meep_component(name), i)) for i in range(n_frequencies)]
-            if any(a.size == 0 or a.ndim != dims for a in per_f):
-                continue  # component absent from this model (e.g. Ey, Hz of an Ez-polarised 2D run)
-            arrays[name] = np.stack(per_f)
-        sheets += face_current_sheets(arrays, centre, size, weight, dims, step)
-    return sheets
 
 
 def fast_far_fields(sheets, directions, meep_frequencies, distance, dims):
