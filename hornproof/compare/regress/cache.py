@@ -16,30 +16,25 @@ partial folder, which lookups never read. A failed run's folder is kept for diag
 ``.<key>.failed`` (also never read as a result).
 """
 
-import hashlib
 import json
 import os
 import shutil
 from pathlib import Path
 
 from ...atomic import write_text_atomic
+from ...hashing import content_sha256
+from ..output import summary
 
 __all__ = [
     "RESULT_FILE",
     "KEY_FILE",
-    "RESULT_SCHEMA",
     "cache_key",
     "ResultCache",
 ]
 
 RESULT_FILE = "result.json"
 KEY_FILE = "cache-key.json"
-RESULT_SCHEMA = "hornproof.result/1"
 KEY_LENGTH = 24  # hex digits of the SHA-256 kept in folder names (96 bits)
-
-
-def _canonical_json(value):
-    return json.dumps(value, sort_keys=True, separators=(",", ":"), ensure_ascii=True, default=str)
 
 
 def cache_key(case_sha256, tier, settings, solver_version, hornproof_version):
@@ -71,8 +66,7 @@ def cache_key(case_sha256, tier, settings, solver_version, hornproof_version):
         "solver_version": str(solver_version),
         "hornproof_version": str(hornproof_version),
     }
-    digest = hashlib.sha256(_canonical_json(inputs).encode("ascii")).hexdigest()
-    return digest[:KEY_LENGTH], inputs
+    return content_sha256(inputs, KEY_LENGTH), inputs
 
 
 def _safe_component(name, what):
@@ -118,8 +112,8 @@ class ResultCache:
         else:
             if not isinstance(result, dict):
                 problem = "not a JSON object"
-            elif result.get("schema") != RESULT_SCHEMA:
-                problem = f"schema: {result.get('schema')!r}, expected {RESULT_SCHEMA!r}"
+            elif result.get("schema") != summary.SCHEMA:
+                problem = f"schema: {result.get('schema')!r}, expected {summary.SCHEMA!r}"
             elif expected_case_sha256 is not None and result.get("case_sha256") != expected_case_sha256:
                 problem = "case_sha256: does not match the case"
         if problem is not None:
@@ -154,8 +148,8 @@ class ResultCache:
             result = json.loads((partial / RESULT_FILE).read_text(encoding="utf-8"))
         except (OSError, UnicodeDecodeError, ValueError) as error:
             raise ValueError(f"{partial / RESULT_FILE}: not a finished result ({error})") from None
-        if not isinstance(result, dict) or result.get("schema") != RESULT_SCHEMA:
-            raise ValueError(f"{partial / RESULT_FILE}: schema: expected {RESULT_SCHEMA!r}")
+        if not isinstance(result, dict) or result.get("schema") != summary.SCHEMA:
+            raise ValueError(f"{partial / RESULT_FILE}: schema: expected {summary.SCHEMA!r}")
         write_text_atomic(partial / KEY_FILE, json.dumps(inputs, indent=2, sort_keys=True) + "\n")
         final = self.entry_dir(case_name, key)
         if final.exists():
