@@ -726,3 +726,45 @@ def test_cache_only_runs_nothing(workspace, capsys):
     assert "--cache-only" in next(c for c in _summary(workspace)["cases"] if c["case"] == "horn-b")["reason"]
     code, out = _run(workspace, "--cache-only", "--fresh", capsys=capsys)
     assert code == 2 and "exclude each other" in out.err
+
+
+@pytest.mark.parametrize("option", ["--junit", "--summary"])
+def test_report_target_that_is_a_folder_exits_2_naming_the_option(workspace, capsys, option):
+    (workspace["root"] / "reports").mkdir()
+    code, out = _run(workspace, option, "reports", capsys=capsys)
+    lines = out.err.strip().splitlines()
+    assert code == 2 and len(lines) == 1
+    assert f"reports: {option}: is a folder" in lines[0]
+    assert not _runs(workspace)  # refused before any run
+
+
+@pytest.mark.parametrize("option", ["--junit", "--summary"])
+def test_foreign_report_file_is_never_overwritten(workspace, capsys, option):
+    foreign = workspace["root"] / "notes.txt"
+    foreign.write_text("someone's notes\n")
+    code, out = _run(workspace, option, "notes.txt", capsys=capsys)
+    lines = out.err.strip().splitlines()
+    assert code == 2 and len(lines) == 1 and f"notes.txt: {option}: the file exists" in lines[0]
+    assert foreign.read_text() == "someone's notes\n" and not _runs(workspace)
+
+
+def test_own_report_files_are_replaced_by_the_next_run(workspace, capsys):
+    argv = ("--junit", "out/suite.xml", "--summary", "out/suite.json", "cases/horn-a.toml")
+    assert _run(workspace, *argv, capsys=capsys)[0] == 0
+    assert json.loads((workspace["root"] / "out" / "suite.json").read_text())["baselines_updated"] == []
+    assert _run(workspace, "--update", *argv, capsys=capsys)[0] == 0  # the second run's own content
+    second = json.loads((workspace["root"] / "out" / "suite.json").read_text())
+    assert second["schema"] == "hornproof.regress/1"
+    assert second["baselines_updated"] == ["cases/baselines/horn-a.quick.json"]
+    assert ET.parse(workspace["root"] / "out" / "suite.xml").getroot().get("name") == "hornproof regress (quick)"
+
+
+def test_one_version_string_in_summary_baseline_and_junit(workspace, capsys):
+    assert _run(workspace, "--update", "cases/horn-a.toml", capsys=capsys)[0] == 0
+    build = version.build_version()
+    assert _summary(workspace)["hornproof_version"] == build
+    stored = json.loads((workspace["cases"] / "baselines" / "horn-a.quick.json").read_text())
+    assert stored["hornproof_version"] == build
+    junit = ET.parse(workspace["root"] / "results" / "regress-quick.junit.xml").getroot()
+    properties = {p.get("name"): p.get("value") for p in junit.iter("property")}
+    assert properties["hornproof_version"] == build
