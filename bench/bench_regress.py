@@ -34,7 +34,7 @@ REPO = Path(__file__).resolve().parents[1]
 sys.path.insert(0, str(REPO))
 
 from hornproof.compare.cli import main as cli  # noqa: E402
-from hornproof.compare.regress import suite  # noqa: E402
+from hornproof.compare.regress import case_runs  # noqa: E402
 
 REGRESS = [sys.executable, "-m", "hornproof.compare.cli.main", "regress"]
 
@@ -60,14 +60,14 @@ def _quiet_main(argv, runner=None):
     """``hornproof regress ARGV`` in this process, silenced; cases that must run use ``runner``
     (None: the default, which a run served entirely from the cache never calls)."""
     saved = sys.stdout, sys.stderr
-    saved_runner = suite.default_runner
+    saved_runner = case_runs.default_runner
     sys.stdout = sys.stderr = open(os.devnull, "w")
     if runner is not None:
-        suite.default_runner = lambda: runner
+        case_runs.default_runner = lambda: runner
     try:
         return cli.main(["regress", *argv])
     finally:
-        suite.default_runner = saved_runner
+        case_runs.default_runner = saved_runner
         sys.stdout.close()
         sys.stdout, sys.stderr = saved
 

@@ -16,7 +16,8 @@ def junit_cases(outcomes, tier):
         if outcome.status == "failed":
             records.append(TestCaseRecord(classname, "run", "failure", message=outcome.reason, kind="run-failed",
                                           detail=outcome.detail or outcome.reason, time_s=outcome.seconds,
-                                          system_out=f"case file: {outcome.case_file}\nrun folder: {outcome.result_dir}"))
+                                          system_out=f"case file: {outcome.case_file}\n"
+                                                     f"run folder: {outcome.result_dir}"))
             continue
         records.append(TestCaseRecord(classname, "run", "passed", time_s=outcome.seconds,
                                       system_out=f"case file: {outcome.case_file}\nresult: {outcome.result_dir}\n"

@@ -25,7 +25,7 @@ import pytest
 from hornproof import version
 from hornproof.compare.case.casefile import load_case
 from hornproof.compare.cli import main as cli
-from hornproof.compare.regress import suite
+from hornproof.compare.regress import case_runs
 from hornproof.compare.regress.classify import DEFAULT_TOLERANCES, classify_figure, tolerance_for
 from hornproof.compare.regress.plan import estimate_case_cost, plan_process_groups
 
@@ -119,8 +119,8 @@ def runner(case, out_dir, *, force=False, progress=None):
 if __name__ == "__main__":
     import resource
     from hornproof.compare.cli import main as cli
-    from hornproof.compare.regress import suite
-    suite.default_runner = lambda: runner
+    from hornproof.compare.regress import case_runs
+    case_runs.default_runner = lambda: runner
     code = cli.main(["regress"] + sys.argv[1:])
     usage = resource.getrusage(resource.RUSAGE_SELF)
     rank = os.environ.get("OMPI_COMM_WORLD_RANK", "serial")
@@ -153,12 +153,12 @@ def workspace(tmp_path, monkeypatch):
 
 def _main(argv, runner):
     """``hornproof regress ARGV`` in this process, cases run by ``runner``."""
-    saved = suite.default_runner
-    suite.default_runner = lambda: runner
+    saved = case_runs.default_runner
+    case_runs.default_runner = lambda: runner
     try:
         return cli.main(["regress", *argv])
     finally:
-        suite.default_runner = saved
+        case_runs.default_runner = saved
 
 
 def _run(ws, *argv, capsys=None):
