@@ -131,9 +131,9 @@ def format_table(outcomes):
         if outcome.status == "failed" or not outcome.figures:
             rows.append((outcome.name, "(run)", outcome.status, "-", "-", "-", "-"))
             continue
-        for v in outcome.figures:
-            rows.append((outcome.name, v.figure, v.status, _fmt(v.max_change, "+.3f"), _fmt(v.tolerance, ".3f"),
-                         _fmt(v.noise, ".3f"), _fmt(v.at_frequency_ghz, ".3f")))
+        for verdict in outcome.figures:
+            rows.append((outcome.name, verdict.figure, verdict.status, _fmt(verdict.max_change, "+.3f"), _fmt(verdict.tolerance, ".3f"),
+                         _fmt(verdict.noise, ".3f"), _fmt(verdict.at_frequency_ghz, ".3f")))
     widths = [max(len(str(r[i])) for r in rows + [header]) for i in range(len(header))]
     lines = ["  ".join(str(c).ljust(w) if i < 3 else str(c).rjust(w) for i, (c, w) in enumerate(zip(row, widths)))
              .rstrip() for row in [header] + rows]

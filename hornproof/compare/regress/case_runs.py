@@ -81,16 +81,16 @@ def _publish(cache, partial, tier_case, key, inputs, result):
     return cache.commit(partial, tier_case.name, key, inputs)
 
 
-def run_one(runner, cache, tier_case, outcome, token, group, *, force, log):
-    """Run one case inside one process group (communicator ``group``).
+def run_one(runner, cache, tier_case, outcome, token, communicator, *, force, log):
+    """Run one case on the ranks of ``communicator`` (one process group).
 
     Returns a RunRecord on the group's rank 0, None on its other ranks.
     """
-    master = group.rank == 0
+    master = communicator.rank == 0
     partial = cache.partial_dir(tier_case.name, outcome.key, token)
     if master:
         cache.begin(tier_case.name, outcome.key, token)
-    group.Barrier()
+    communicator.Barrier()
     started = time.monotonic()
     try:
         result, error = _call_runner(runner, tier_case, partial, force=force)
@@ -99,7 +99,7 @@ def run_one(runner, cache, tier_case, outcome, token, group, *, force, log):
             cache.discard(partial)
         raise
     seconds = time.monotonic() - started
-    errors = group.gather(error, root=0)
+    errors = communicator.gather(error, root=0)
     if not master:
         return None
     problems = [e for e in errors if e is not None]
@@ -135,18 +135,18 @@ def run_cases(world, entries, to_run, runner, cache, *, ranks_per_case, force, l
     plan = _plan(world, entries, to_run, ranks_per_case)
     token = world.bcast(uuid.uuid4().hex[:12] if world.rank == 0 else None, root=0)
     records = {}
-    with mpi.process_groups(world, len(plan)) as (group, group_comm):
+    with mpi.process_groups(world, len(plan)) as (group, group_communicator):
         mine = plan[group]
         for count, index in enumerate(mine, 1):
             tier_case = entries[index].tier_case
-            if group_comm.rank == 0:
+            if group_communicator.rank == 0:
                 where = f"group {group}: " if len(plan) > 1 else ""
                 log(f"{where}[{count}/{len(mine)}] {tier_case.name}: running")
-            record = run_one(runner, cache, tier_case, entries[index].outcome, f"{token}g{group}", group_comm,
+            record = run_one(runner, cache, tier_case, entries[index].outcome, f"{token}g{group}", group_communicator,
                              force=force, log=log)
             if record is not None:
                 records[index] = record
-            group_comm.Barrier()
+            group_communicator.Barrier()
     if world.size == 1:
         return records
     mpi.wait_idle(world)  # a rank done early sleeps here instead of spinning in MPI

@@ -17,6 +17,7 @@ A case takes the worst status of its figures.
 
 import math
 from dataclasses import dataclass
+from typing import NamedTuple
 
 from ..numerics.figures import FIGURES
 from ..output.baseline_file import FIGURE_UNITS
@@ -121,46 +122,64 @@ def classify_figure(figure, base_values, base_uncertainty, new_values, new_uncer
         everywhere; else ``within-noise``. The decisive frequency is the one with the largest
         |Δ| / max(tolerance, noise) among the regressed ones (among all, otherwise).
     """
-    n = len(frequencies_ghz)
-    if not (len(base_values) == len(new_values) == len(base_uncertainty) == len(new_uncertainty) == n):
+    count = len(frequencies_ghz)
+    if not (len(base_values) == len(new_values) == len(base_uncertainty) == len(new_uncertainty) == count):
         raise ValueError(f"{figure}: values and uncertainties must have one entry per frequency")
     verdict = FigureVerdict(figure=figure, status="unchanged", tolerance=tolerance, tolerance_key=tolerance_key)
-    changed = []  # (score, regressed, index, delta, noise)
-    for i in range(n):
-        b, v = base_values[i], new_values[i]
-        if b is None and v is None:
-            continue
-        if b is None or v is None:
-            changed.append((math.inf, True, i, None, None))
-            continue
-        delta = v - b
-        if abs(delta) <= epsilon * max(1.0, abs(b)):
-            continue
-        noise = math.hypot(base_uncertainty[i] or 0.0, new_uncertainty[i] or 0.0)
-        regressed = abs(delta) > tolerance and abs(delta) > noise
-        changed.append((abs(delta) / max(tolerance, noise, 1e-300), regressed, i, delta, noise))
-    if not changed:
+    changes = [change for change in (
+        _change_at(index, base_values, base_uncertainty, new_values, new_uncertainty, tolerance, epsilon)
+        for index in range(count)) if change is not None]
+    if not changes:
         return verdict
-    regressed = [c for c in changed if c[1]]
+    regressed = [change for change in changes if change.regressed]
     verdict.status = "regressed" if regressed else "within-noise"
-    _, _, i, verdict.max_change, verdict.noise = max(regressed or changed, key=lambda c: (c[0], -c[2]))
-    verdict.at_frequency_ghz = frequencies_ghz[i]
-    verdict.baseline_value, verdict.new_value = base_values[i], new_values[i]
-    if verdict.max_change is None:
-        b, v = base_values[i], new_values[i]
-        verdict.reason = (f"undefined now (was {b:.4g})" if v is None else f"was undefined, now {v:.4g}") + \
-            f" at {frequencies_ghz[i]:g} GHz"
-    if verdict.status == "regressed" and not verdict.reason:
+    decisive = max(regressed or changes, key=lambda change: (change.score, -change.index))
+    index = decisive.index
+    verdict.max_change, verdict.noise = decisive.delta, decisive.noise
+    verdict.at_frequency_ghz = frequencies_ghz[index]
+    verdict.baseline_value, verdict.new_value = base_values[index], new_values[index]
+    if decisive.delta is None:
+        was, now = base_values[index], new_values[index]
+        verdict.reason = (f"undefined now (was {was:.4g})" if now is None else f"was undefined, now {now:.4g}") + \
+            f" at {frequencies_ghz[index]:g} GHz"
+    elif verdict.status == "regressed":
         verdict.reason = (
             f"changed by {verdict.max_change:+.4g} at {verdict.at_frequency_ghz:g} GHz: beyond the tolerance "
             f"{tolerance:g} and the combined uncertainty {verdict.noise:.3g}"
         )
-    elif verdict.status == "within-noise":
+    else:
         verdict.reason = (
             f"largest change {verdict.max_change:+.4g} at {verdict.at_frequency_ghz:g} GHz is within the tolerance "
             f"{tolerance:g} or the combined uncertainty {verdict.noise:.3g}"
         )
     return verdict
+
+
+class _Change(NamedTuple):
+    """A figure's change at one frequency: its size relative to max(tolerance, noise) (``score``),
+    whether it is a regression, the frequency index, the signed change and the combined noise
+    (both None when the figure became defined or undefined there)."""
+
+    score: float
+    regressed: bool
+    index: int
+    delta: float | None
+    noise: float | None
+
+
+def _change_at(index, base_values, base_uncertainty, new_values, new_uncertainty, tolerance, epsilon):
+    """The change at frequency ``index``, or None where the figure is equal (or undefined on both sides)."""
+    baseline, new = base_values[index], new_values[index]
+    if baseline is None and new is None:
+        return None
+    if baseline is None or new is None:
+        return _Change(math.inf, True, index, None, None)
+    delta = new - baseline
+    if abs(delta) <= epsilon * max(1.0, abs(baseline)):
+        return None
+    noise = math.hypot(base_uncertainty[index] or 0.0, new_uncertainty[index] or 0.0)
+    regressed = abs(delta) > tolerance and abs(delta) > noise
+    return _Change(abs(delta) / max(tolerance, noise, 1e-300), regressed, index, delta, noise)
 
 
 def compare_case(baseline, case_sha256, frequencies_ghz, figures, checks):
@@ -222,4 +241,4 @@ def case_status(figure_verdicts):
     """The worst status among a case's figures ("unchanged" for none)."""
     if not figure_verdicts:
         return "unchanged"
-    return min((v.status for v in figure_verdicts), key=_RANK.__getitem__)
+    return min((verdict.status for verdict in figure_verdicts), key=_RANK.__getitem__)

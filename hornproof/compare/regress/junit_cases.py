@@ -22,13 +22,13 @@ def junit_cases(outcomes, tier):
         records.append(TestCaseRecord(classname, "run", "passed", time_s=outcome.seconds,
                                       system_out=f"case file: {outcome.case_file}\nresult: {outcome.result_dir}\n"
                                                  f"source: {outcome.source}"))
-        for v in outcome.figures:
-            text = f"{v.status}: {v.reason}".rstrip(": ")
-            if v.status == "regressed":
-                records.append(TestCaseRecord(classname, v.figure, "failure", message=v.reason, kind="regressed",
-                                              detail=f"{v.reason}\nreport: {outcome.report}"))
-            elif v.status in ("new", "not-comparable"):
-                records.append(TestCaseRecord(classname, v.figure, "skipped", message=f"{v.status}: {v.reason}"))
+        for verdict in outcome.figures:
+            text = f"{verdict.status}: {verdict.reason}".rstrip(": ")
+            if verdict.status == "regressed":
+                records.append(TestCaseRecord(classname, verdict.figure, "failure", message=verdict.reason, kind="regressed",
+                                              detail=f"{verdict.reason}\nreport: {outcome.report}"))
+            elif verdict.status in ("new", "not-comparable"):
+                records.append(TestCaseRecord(classname, verdict.figure, "skipped", message=f"{verdict.status}: {verdict.reason}"))
             else:
-                records.append(TestCaseRecord(classname, v.figure, "passed", system_out=text))
+                records.append(TestCaseRecord(classname, verdict.figure, "passed", system_out=text))
     return records

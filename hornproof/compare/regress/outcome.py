@@ -47,7 +47,7 @@ class CaseOutcome:
             "report": self.report,
             "baseline_file": self.baseline_file,
             "baseline_case_sha256": self.baseline_case_sha256,
-            "figures": [v.to_dict() for v in self.figures],
+            "figures": [verdict.to_dict() for verdict in self.figures],
         }
 
 
@@ -58,8 +58,8 @@ def count_statuses(outcomes):
         if outcome.status == "failed" or not outcome.figures:
             counts[outcome.status] += 1
         else:
-            for v in outcome.figures:
-                counts[v.status] += 1
+            for verdict in outcome.figures:
+                counts[verdict.status] += 1
     return counts
 
 
