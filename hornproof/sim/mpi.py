@@ -23,7 +23,7 @@ import contextlib
 import os
 import time
 
-__all__ = ["rank", "size", "is_master", "is_group_master", "barrier", "SerialWorld", "world", "wait_idle",
+__all__ = ["rank", "size", "is_master", "is_group_master", "SerialWorld", "world", "wait_idle",
            "process_groups", "launch_environment", "mpirun_command"]
 
 
@@ -77,14 +77,6 @@ def is_master():
 def is_group_master():
     mp = _meep()
     return bool(mp.am_master()) if mp is not None else True
-
-
-def barrier():
-    """Wait for all processes (no-op when serial)."""
-    if size() > 1:
-        from mpi4py import MPI
-
-        MPI.COMM_WORLD.Barrier()
 
 
 # --- communicators and process groups ------------------------------------------------------------

@@ -132,8 +132,9 @@ def format_table(outcomes):
             rows.append((outcome.name, "(run)", outcome.status, "-", "-", "-", "-"))
             continue
         for verdict in outcome.figures:
-            rows.append((outcome.name, verdict.figure, verdict.status, _fmt(verdict.max_change, "+.3f"), _fmt(verdict.tolerance, ".3f"),
-                         _fmt(verdict.noise, ".3f"), _fmt(verdict.at_frequency_ghz, ".3f")))
+            rows.append((outcome.name, verdict.figure, verdict.status, _fmt(verdict.max_change, "+.3f"),
+                         _fmt(verdict.tolerance, ".3f"), _fmt(verdict.noise, ".3f"),
+                         _fmt(verdict.at_frequency_ghz, ".3f")))
     widths = [max(len(str(r[i])) for r in rows + [header]) for i in range(len(header))]
     lines = ["  ".join(str(c).ljust(w) if i < 3 else str(c).rjust(w) for i, (c, w) in enumerate(zip(row, widths)))
              .rstrip() for row in [header] + rows]

@@ -20,7 +20,7 @@ from ..output.baseline_file import figures_from_result
 from .cache import RESULT_FILE
 from .plan import estimate_case_cost, plan_process_groups
 
-__all__ = ["RunRecord", "default_runner", "run_one", "run_cases"]
+__all__ = ["RunRecord", "default_runner", "run_cases"]
 
 
 @dataclass
@@ -81,7 +81,7 @@ def _publish(cache, partial, tier_case, key, inputs, result):
     return cache.commit(partial, tier_case.name, key, inputs)
 
 
-def run_one(runner, cache, tier_case, outcome, token, communicator, *, force, log):
+def _run_one(runner, cache, tier_case, outcome, token, communicator, *, force, log):
     """Run one case on the ranks of ``communicator`` (one process group).
 
     Returns a RunRecord on the group's rank 0, None on its other ranks.
@@ -142,7 +142,7 @@ def run_cases(world, entries, to_run, runner, cache, *, ranks_per_case, force, l
             if group_communicator.rank == 0:
                 where = f"group {group}: " if len(plan) > 1 else ""
                 log(f"{where}[{count}/{len(mine)}] {tier_case.name}: running")
-            record = run_one(runner, cache, tier_case, entries[index].outcome, f"{token}g{group}", group_communicator,
+            record = _run_one(runner, cache, tier_case, entries[index].outcome, f"{token}g{group}", group_communicator,
                              force=force, log=log)
             if record is not None:
                 records[index] = record

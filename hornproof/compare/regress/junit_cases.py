@@ -25,10 +25,11 @@ def junit_cases(outcomes, tier):
         for verdict in outcome.figures:
             text = f"{verdict.status}: {verdict.reason}".rstrip(": ")
             if verdict.status == "regressed":
-                records.append(TestCaseRecord(classname, verdict.figure, "failure", message=verdict.reason, kind="regressed",
-                                              detail=f"{verdict.reason}\nreport: {outcome.report}"))
+                records.append(TestCaseRecord(classname, verdict.figure, "failure", message=verdict.reason,
+                                              kind="regressed", detail=f"{verdict.reason}\nreport: {outcome.report}"))
             elif verdict.status in ("new", "not-comparable"):
-                records.append(TestCaseRecord(classname, verdict.figure, "skipped", message=f"{verdict.status}: {verdict.reason}"))
+                records.append(TestCaseRecord(classname, verdict.figure, "skipped",
+                                              message=f"{verdict.status}: {verdict.reason}"))
             else:
                 records.append(TestCaseRecord(classname, verdict.figure, "passed", system_out=text))
     return records
