@@ -8,7 +8,7 @@ Run from the repository root::
 1. Cache-hit path: every shipped case (cases/*.toml) copied to a scratch folder; the result cache
    filled once with *synthetic* summaries (the cache-hit path never calls the runner, so what it
    costs does not depend on where the cached results came from); then the whole suite is compared
-   again, in process and as a fresh ``python -m hornproof.compare.regress.runner`` (interpreter start
+   again, in process and as a fresh ``python -m hornproof.compare.cli.main regress`` (interpreter start
    included). Target: under 1 s.
 2. Quick tier, real runs (``hornproof.compare.jobs.verify.verify_case``): wall time serial, under
    ``mpirun -np 2`` with the automatic plan, and with ``--ranks-per-case 1`` (two process groups,
@@ -33,7 +33,10 @@ from pathlib import Path
 REPO = Path(__file__).resolve().parents[1]
 sys.path.insert(0, str(REPO))
 
-from hornproof.compare.regress import runner as regress  # noqa: E402
+from hornproof.compare.cli import main as cli  # noqa: E402
+from hornproof.compare.regress import case_runs  # noqa: E402
+
+REGRESS = [sys.executable, "-m", "hornproof.compare.cli.main", "regress"]
 
 
 def synthetic_runner(case, out_dir, *, force=False, progress=None):
@@ -54,11 +57,17 @@ def synthetic_runner(case, out_dir, *, force=False, progress=None):
 
 
 def _quiet_main(argv, runner=None):
+    """``hornproof regress ARGV`` in this process, silenced; cases that must run use ``runner``
+    (None: the default, which a run served entirely from the cache never calls)."""
     saved = sys.stdout, sys.stderr
+    saved_runner = case_runs.default_runner
     sys.stdout = sys.stderr = open(os.devnull, "w")
+    if runner is not None:
+        case_runs.default_runner = lambda: runner
     try:
-        return regress.main(argv, runner=runner)
+        return cli.main(["regress", *argv])
     finally:
+        case_runs.default_runner = saved_runner
         sys.stdout.close()
         sys.stdout, sys.stderr = saved
 
@@ -72,7 +81,7 @@ def bench_cache_hit(scratch, repeats):
     os.chdir(scratch)
     code = _quiet_main(["--update"], runner=synthetic_runner)
     if code != 0:
-        print(f"cache fill failed (exit {code}); see: cd {scratch} && python -m hornproof.compare.regress.runner")
+        print(f"cache fill failed (exit {code}); see: cd {scratch} && python -m hornproof.compare.cli.main regress")
         return
     in_process = []
     for _ in range(repeats):
@@ -84,7 +93,7 @@ def bench_cache_hit(scratch, repeats):
     env = dict(os.environ, PYTHONPATH=str(REPO))
     for _ in range(repeats):
         started = time.perf_counter()
-        done = subprocess.run([sys.executable, "-m", "hornproof.compare.regress.runner"], cwd=scratch, env=env,
+        done = subprocess.run(REGRESS, cwd=scratch, env=env,
                               capture_output=True, text=True)
         fresh_process.append(time.perf_counter() - started)
         if done.returncode != 0:
@@ -106,7 +115,7 @@ def bench_mpi(scratch, cases, timeout):
         print("serial vs mpirun -np 2: skipped, no mpirun")
         return
     env = dict(os.environ, PYTHONPATH=str(REPO))
-    base = [sys.executable, "-m", "hornproof.compare.regress.runner", "--tier", "quick", "--fresh",
+    base = REGRESS + ["--tier", "quick", "--fresh",
             "--baselines", str(scratch / "baselines")] + [str(c) for c in cases]
     times = {}
     mpirun = ["mpirun", "--allow-run-as-root", "--oversubscribe", "-np", "2"]

@@ -1,4 +1,4 @@
-"""Who am I under MPI: rank, size, master; and running independent jobs in process groups.
+"""Who am I under MPI: rank, size, master; the world communicator and its process groups.
 
 Meep's MPI build (Debian ``python3-meep-mpi-default``) initialises MPI when imported, also
 for a plain serial ``python`` (one process). Its helpers, as they behave in Meep 1.25.0:
@@ -13,21 +13,23 @@ for a plain serial ``python`` (one process). Its helpers, as they behave in Meep
   communicator.
 * ``mp.merge_subgroup_data(array)`` gathers one array per group; in Meep 1.25.0 it calls
   ``np.bool``, which numpy 1.24 (Debian's) removed, so it raises ``AttributeError`` here.
-  :func:`run_in_groups` therefore gathers with mpi4py itself (any picklable result).
+  Results of process groups are therefore gathered with mpi4py (any picklable value).
 
 Importing this module never imports Meep; the functions do, lazily, and fall back to a
 serial answer (rank 0 of 1) when Meep is not installed.
 """
 
+import contextlib
 import os
+import time
 
-__all__ = ["rank", "size", "is_master", "group_rank", "group_size", "is_group_master",
-           "barrier", "run_in_groups", "launch_environment", "mpirun_command"]
+__all__ = ["rank", "size", "is_master", "is_group_master", "SerialWorld", "world", "wait_idle",
+           "process_groups", "launch_environment", "mpirun_command"]
 
 
 def _meep():
     try:
-        import meep  # lazy and optional: slow to import, and it starts MPI (and prints a banner)
+        import meep
     except ImportError:
         return None
     return meep
@@ -60,7 +62,7 @@ def size():
     if mp is None:
         return _environment_size()
     try:
-        from mpi4py import MPI  # lazy and optional: mpi4py may be absent in a serial install
+        from mpi4py import MPI
     except ImportError:
         return int(mp.count_processors())  # world size unless groups are active
     return int(MPI.COMM_WORLD.Get_size())
@@ -72,89 +74,89 @@ def is_master():
     return bool(mp.am_really_master()) if mp is not None else _environment_rank() == 0
 
 
-def group_rank():
-    """Rank inside the current Meep communicator (the group, if divided)."""
-    mp = _meep()
-    return int(mp.my_rank()) if mp is not None else 0
-
-
-def group_size():
-    """Processes in the current Meep communicator (the group, if divided)."""
-    mp = _meep()
-    return int(mp.count_processors()) if mp is not None else 1
-
-
 def is_group_master():
     mp = _meep()
     return bool(mp.am_master()) if mp is not None else True
 
 
-def barrier():
-    """Wait for all processes (no-op when serial)."""
-    if size() > 1:
-        from mpi4py import MPI  # lazy: only a parallel run needs it
-
-        MPI.COMM_WORLD.Barrier()
+# --- communicators and process groups ------------------------------------------------------------
+#: environment variables by which MPI launchers (Open MPI, MPICH/Hydra, PMIx, Slurm) mark a rank
+_LAUNCHER_MARKERS = ("OMPI_COMM_WORLD_SIZE", "PMI_SIZE", "PMIX_RANK", "MPI_LOCALNRANKS", "SLURM_NTASKS_MPI")
 
 
-def run_in_groups(tasks, function, n_groups=None):
-    """Run ``function(task)`` for every task, spreading the tasks over process groups.
+class SerialWorld:
+    """Stands in for an MPI communicator when running on one process (the mpi4py methods used)."""
 
-    The processes are split into ``n_groups`` groups with ``mp.divide_parallel_processes``
-    (default: one group per process); group g runs tasks g, g + n, g + 2n, … each on all of
-    its processes (a Meep run inside ``function`` is parallel within the group). The results
-    of each group's rank 0 are gathered with mpi4py and returned, in task order, on every
-    process. Serially (one process) it is a plain loop.
+    rank = 0
+    size = 1
 
-    Parameters
-    ----------
-    tasks : sequence
-        Inputs, one per independent run (e.g. frequencies or resolutions).
-    function : callable
-        ``function(task) -> result``; the result must be picklable. It must build its own
-        ``mp.Simulation`` (one made before the split belongs to the world communicator).
-    n_groups : int, optional
-        Number of groups, at most the number of processes.
+    def bcast(self, value, root=0):
+        return value
 
-    Returns
-    -------
-    list
-        ``[function(task) for task in tasks]`` as computed by the groups.
+    def gather(self, value, root=0):
+        return [value]
+
+    def Barrier(self):
+        pass
+
+    def Split(self, color, key):
+        return self
+
+
+def world():
+    """The MPI world communicator when launched by an MPI launcher with several ranks, else a
+    :class:`SerialWorld`.
+
+    Detected from the launcher's environment first, so a plain run never starts MPI (importing
+    Meep takes about a second). Meep is imported before mpi4py so that MPI starts the way Meep
+    expects; both imports are lazy for that reason.
     """
-    tasks = list(tasks)
-    world = size()
-    n_groups = world if n_groups is None else int(n_groups)
-    if n_groups < 1:
-        raise ValueError(f"n_groups: must be >= 1, got {n_groups}")
-    n_groups = min(n_groups, world)
-    if world == 1 or n_groups == 1:
-        return [function(task) for task in tasks]
-
-    # lazy: only a parallel run needs them, and Meep is slow to import
-    import meep as mp
-    from mpi4py import MPI
-
-    group = int(mp.divide_parallel_processes(n_groups))
-    mine, error = {}, None
+    if not any(name in os.environ for name in _LAUNCHER_MARKERS):
+        return SerialWorld()
+    _meep()
     try:
-        for index in range(group, len(tasks), n_groups):
-            mine[index] = function(tasks[index])
-    except Exception as exc:  # reported on every rank below, so no group waits forever
-        error = f"group {group}, rank {rank()}: {type(exc).__name__}: {exc}"
+        from mpi4py import MPI
+    except ImportError:
+        return SerialWorld()
+    communicator = MPI.COMM_WORLD
+    return communicator if communicator.Get_size() > 1 else SerialWorld()
+
+
+def wait_idle(communicator, poll_seconds=0.05):
+    """Wait until every rank of ``communicator`` has arrived, sleeping between checks.
+
+    A blocking MPI barrier busy-polls (Open MPI spins a core at 100 %): a rank whose process
+    group finished early would take a core from the groups still running Meep.
+    """
+    start = getattr(communicator, "Ibarrier", None)
+    if start is None:
+        communicator.Barrier()
+        return
+    request = start()
+    while not request.Test():
+        time.sleep(poll_seconds)
+
+
+@contextlib.contextmanager
+def process_groups(communicator, groups):
+    """Split the ranks of ``communicator`` into ``groups`` process groups for the ``with`` block.
+
+    Yields ``(group index, group communicator)``. With Meep installed the split is Meep's own
+    (``divide_parallel_processes``), so every ``Simulation`` built inside the block lives in its
+    group only; Meep's division ends when the block is left. Without Meep, rank r goes to group
+    r·groups // size. On one process (or one group) nothing is divided.
+    """
+    if communicator.size == 1 or groups == 1:
+        yield 0, communicator
+        return
+    mp = _meep()
+    group = int(mp.divide_parallel_processes(groups)) if mp is not None \
+        else communicator.rank * groups // communicator.size
+    try:
+        yield group, communicator.Split(group, communicator.rank)
     finally:
-        is_group_leader = bool(mp.am_master())
-        mp.end_divide_parallel()
-    gathered = MPI.COMM_WORLD.allgather((mine if is_group_leader else {}, error))
-    errors = [e for _, e in gathered if e]
-    if errors:
-        raise RuntimeError("run_in_groups: " + "; ".join(errors))
-    merged = {}
-    for part, _ in gathered:
-        merged.update(part)
-    missing = [i for i in range(len(tasks)) if i not in merged]
-    if missing:
-        raise RuntimeError(f"run_in_groups: no result for tasks {missing}")
-    return [merged[i] for i in range(len(tasks))]
+        if mp is not None:
+            mp.end_divide_parallel()
 
 
 # --- starting an MPI run from Python ------------------------------------------------------------

@@ -92,9 +92,9 @@ def build_parser():
     p.add_argument("--force", action="store_true")
 
     from .design import add_design_arguments
-    from ..regress.runner import add_regress_arguments
+    from . import regress
 
-    add_regress_arguments(sub.add_parser("regress", help="nightly suite against stored baselines (JUnit XML)"))
+    regress.setup_arguments(sub.add_parser("regress", help="nightly suite against stored baselines (JUnit XML)"))
     add_design_arguments(sub.add_parser("design", help="optimum horn sizing (analytic)"))
 
     p = sub.add_parser("report", help="rebuild report.html from a stored result folder")
@@ -108,7 +108,7 @@ COMMANDS = {
     "simulate": ("hornproof.compare.cli.simulate", "simulate_command"),
     "verify": ("hornproof.compare.jobs.verify", "verify_command"),
     "sweep": ("hornproof.compare.jobs.sweep", "sweep_command"),
-    "regress": ("hornproof.compare.regress.runner", "regress_command"),
+    "regress": ("hornproof.compare.cli.regress", "run"),
     "design": ("hornproof.compare.cli.design", "design_command"),
     "report": ("hornproof.compare.cli.report", "report_command"),
 }
@@ -189,9 +189,9 @@ def _is_global_master():
 
 def _quiet_meep_exit():
     """Meep reports "Elapsed run time" on standard output at exit; hornproof reports its own times."""
-    from ..regress.runner import _silence_meep_exit_banner
+    from ...sim.exit_banner import silence_exit_banner
 
-    _silence_meep_exit_banner()
+    silence_exit_banner()
 
 
 if __name__ == "__main__":  # pragma: no cover

@@ -90,6 +90,22 @@ def check_new_file(path, option):
     return target
 
 
+def check_replaceable_file(path, option, is_own, what):
+    """A file the command will write, replacing only its own earlier output; return it as a Path.
+
+    Refused with a one-line ``InputError`` naming the path and the option when it is a folder,
+    or an existing file that ``is_own(path)`` does not recognise (``what`` names the kind of
+    file expected, for the message). Its folder is created if needed and must be writable.
+    """
+    target = Path(path)
+    if target.is_dir():
+        raise InputError(f"{path}: {option}: is a folder; name a file")
+    if target.exists() and not is_own(target):
+        raise InputError(f"{path}: {option}: the file exists and is not {what}; refusing to overwrite it")
+    _check_writable(target.parent, str(path), option)
+    return target
+
+
 def publish_folder(out_dir, write):
     """Build a result folder under a temporary name, then swap it into place.
 

@@ -22,7 +22,7 @@ from datetime import datetime, timezone
 
 from ...atomic import write_text_atomic
 
-__all__ = ["OUTCOMES", "TestCaseRecord", "junit_document", "write_junit"]
+__all__ = ["OUTCOMES", "TestCaseRecord", "junit_document", "write_junit", "suite_name"]
 
 OUTCOMES = ("passed", "failure", "error", "skipped")
 
@@ -139,3 +139,13 @@ def junit_document(suite_name, cases, *, timestamp=None, properties=None):
 def write_junit(path, suite_name, cases, **kwargs):
     """Write :func:`junit_document` to ``path`` atomically (UTF-8)."""
     write_text_atomic(path, junit_document(suite_name, cases, **kwargs))
+
+
+def suite_name(path):
+    """The ``name`` of a JUnit XML file's root ``<testsuites>`` element; None when the file is
+    not readable JUnit XML (used to replace only a report a tool wrote itself)."""
+    try:
+        root = ET.parse(path).getroot()
+    except (OSError, ET.ParseError):
+        return None
+    return root.get("name") if root.tag == "testsuites" else None

@@ -5,14 +5,14 @@ import math
 
 import pytest
 
-from hornproof.compare.regress.baseline import (
+from hornproof.compare.output.baseline_file import (
     SCHEMA,
-    baseline_from_result,
     baseline_path,
     figures_from_result,
     read_baseline,
     write_baseline,
 )
+from hornproof.compare.regress.baseline import baseline_from_result
 from hornproof.errors import InputError
 
 

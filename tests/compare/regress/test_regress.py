@@ -22,8 +22,12 @@ from pathlib import Path
 
 import pytest
 
-from hornproof.compare.regress import runner as regress
-from hornproof.compare.regress.runner import classify_figure, estimate_case_cost, plan_process_groups, tolerance_for
+from hornproof import version
+from hornproof.compare.case.casefile import load_case
+from hornproof.compare.cli import main as cli
+from hornproof.compare.regress import case_runs
+from hornproof.compare.regress.classify import DEFAULT_TOLERANCES, classify_figure, tolerance_for
+from hornproof.compare.regress.plan import estimate_case_cost, plan_process_groups
 
 REPO = Path(__file__).resolve().parents[3]
 
@@ -114,8 +118,10 @@ def runner(case, out_dir, *, force=False, progress=None):
 
 if __name__ == "__main__":
     import resource
-    from hornproof.compare.regress.runner import main
-    code = main(sys.argv[1:], runner=runner)
+    from hornproof.compare.cli import main as cli
+    from hornproof.compare.regress import case_runs
+    case_runs.default_runner = lambda: runner
+    code = cli.main(["regress"] + sys.argv[1:])
     usage = resource.getrusage(resource.RUSAGE_SELF)
     rank = os.environ.get("OMPI_COMM_WORLD_RANK", "serial")
     print(f"cpu-seconds rank {rank}: {usage.ru_utime + usage.ru_stime:.2f}", file=sys.stderr)
@@ -145,8 +151,18 @@ def workspace(tmp_path, monkeypatch):
     return {"root": tmp_path, "cases": cases, "driver": driver, "fake": fake, "log": tmp_path / "runs.log"}
 
 
+def _main(argv, runner):
+    """``hornproof regress ARGV`` in this process, cases run by ``runner``."""
+    saved = case_runs.default_runner
+    case_runs.default_runner = lambda: runner
+    try:
+        return cli.main(["regress", *argv])
+    finally:
+        case_runs.default_runner = saved
+
+
 def _run(ws, *argv, capsys=None):
-    code = regress.main(list(argv), runner=ws["fake"].runner)
+    code = _main(list(argv), ws["fake"].runner)
     out = capsys.readouterr() if capsys is not None else None
     return code, out
 
@@ -225,7 +241,7 @@ def test_tolerance_from_checks_and_fallback():
     assert tolerance_for("realized_gain_dbi", checks) == (0.5, "directivity_db")
     assert tolerance_for("hpbw_h_deg", checks) == (2.0, "hpbw_deg")
     assert tolerance_for("hpbw_e_deg", checks) == (3.0, "hpbw_e_deg")
-    assert tolerance_for("s11_db", checks) == (regress.DEFAULT_TOLERANCES["s11_db"], "default:s11_db")
+    assert tolerance_for("s11_db", checks) == (DEFAULT_TOLERANCES["s11_db"], "default:s11_db")
 
 
 def test_plan_balances_cases_over_groups():
@@ -251,8 +267,6 @@ def test_plan_balances_cases_over_groups():
 
 
 def test_case_cost_grows_with_size_and_dimension(workspace):
-    from hornproof.compare.case.casefile import load_case
-
     small = load_case(workspace["cases"] / "horn-c.toml")
     big = load_case(workspace["cases"] / "horn-b.toml")
     assert estimate_case_cost(big) > estimate_case_cost(small) > 1.0
@@ -357,7 +371,7 @@ def test_bug_in_runner_is_failed_not_a_crash(workspace, capsys):
     def broken(case, out_dir, *, force=False, progress=None):
         raise ZeroDivisionError("division by zero")
 
-    code = regress.main([], runner=broken)
+    code = _main([], broken)
     out = capsys.readouterr()
     assert code == 1 and "ZeroDivisionError" in out.err
     assert {c["status"] for c in _summary(workspace)["cases"]} == {"failed"}
@@ -498,7 +512,7 @@ def test_json_option_prints_the_summary(workspace, capsys):
         print("Using MPI version 3.1, 1 processes")  # what Meep prints on import
         return workspace["fake"].runner(case, out_dir)
 
-    code = regress.main(["--json"], runner=chatty)
+    code = _main(["--json"], chatty)
     out = capsys.readouterr()
     assert code == 0 and "Using MPI" in out.err
     document = json.loads(out.out)
@@ -550,7 +564,7 @@ def test_mpirun_real_meep_runs_inside_process_groups(workspace):
     statuses = {f["status"] for c in _summary(ws)["cases"] for f in c["figures"]}
     assert statuses == {"unchanged"}
     base = json.loads((ws["cases"] / "baselines" / "horn-a.quick.json").read_text())
-    plain = ws["fake"].synthetic_result(regress._default_loader()(ws["cases"] / "horn-a.toml").for_tier("quick"))
+    plain = ws["fake"].synthetic_result(load_case(ws["cases"] / "horn-a.toml").for_tier("quick"))
     key = "directivity_2d_db"
     assert base["figures"][key]["values"][0] != pytest.approx(plain["models"]["fdtd"][key][0], abs=1e-6)
 
@@ -566,12 +580,12 @@ def test_malformed_or_foreign_results_are_failed_runs(workspace, capsys):
     def other_case(case, out_dir, *, force=False, progress=None):
         return {**fake.synthetic_result(case), "case_sha256": "0" * 64}
 
-    code = regress.main(["cases/horn-a.toml"], runner=misaligned)
+    code = _main(["cases/horn-a.toml"], misaligned)
     capsys.readouterr()
     entry = _summary(workspace)["cases"][0]
     assert code == 1 and entry["status"] == "failed" and "models.fdtd.hpbw_h_deg" in entry["reason"]
 
-    code = regress.main(["--fresh", "cases/horn-b.toml"], runner=other_case)
+    code = _main(["--fresh", "cases/horn-b.toml"], other_case)
     capsys.readouterr()
     entry = _summary(workspace)["cases"][0]
     assert code == 1 and entry["status"] == "failed" and "case_sha256" in entry["reason"]
@@ -585,14 +599,14 @@ def test_source_digest_follows_code_changes(tmp_path):
     (package / "sub").mkdir(parents=True)
     (package / "a.py").write_text("x = 1\n")
     (package / "sub" / "b.py").write_text("y = 2\n")
-    first = regress.source_digest(package)
+    first = version.source_digest(package)
     (package / "__pycache__").mkdir()
     (package / "__pycache__" / "a.cpython-311.py").write_text("junk")
     (package / "notes.txt").write_text("not code")
-    assert regress.source_digest(package) == first
+    assert version.source_digest(package) == first
     (package / "sub" / "b.py").write_text("y = 3\n")
-    assert regress.source_digest(package) != first
-    assert regress.hornproof_build().startswith(regress.__version__ + "+src.")
+    assert version.source_digest(package) != first
+    assert version.build_version().startswith(version.VERSION + "+src.")
 
 
 def test_unusable_results_folder_or_case_name_exits_2(workspace, capsys):
@@ -712,3 +726,45 @@ def test_cache_only_runs_nothing(workspace, capsys):
     assert "--cache-only" in next(c for c in _summary(workspace)["cases"] if c["case"] == "horn-b")["reason"]
     code, out = _run(workspace, "--cache-only", "--fresh", capsys=capsys)
     assert code == 2 and "exclude each other" in out.err
+
+
+@pytest.mark.parametrize("option", ["--junit", "--summary"])
+def test_report_target_that_is_a_folder_exits_2_naming_the_option(workspace, capsys, option):
+    (workspace["root"] / "reports").mkdir()
+    code, out = _run(workspace, option, "reports", capsys=capsys)
+    lines = out.err.strip().splitlines()
+    assert code == 2 and len(lines) == 1
+    assert f"reports: {option}: is a folder" in lines[0]
+    assert not _runs(workspace)  # refused before any run
+
+
+@pytest.mark.parametrize("option", ["--junit", "--summary"])
+def test_foreign_report_file_is_never_overwritten(workspace, capsys, option):
+    foreign = workspace["root"] / "notes.txt"
+    foreign.write_text("someone's notes\n")
+    code, out = _run(workspace, option, "notes.txt", capsys=capsys)
+    lines = out.err.strip().splitlines()
+    assert code == 2 and len(lines) == 1 and f"notes.txt: {option}: the file exists" in lines[0]
+    assert foreign.read_text() == "someone's notes\n" and not _runs(workspace)
+
+
+def test_own_report_files_are_replaced_by_the_next_run(workspace, capsys):
+    argv = ("--junit", "out/suite.xml", "--summary", "out/suite.json", "cases/horn-a.toml")
+    assert _run(workspace, *argv, capsys=capsys)[0] == 0
+    assert json.loads((workspace["root"] / "out" / "suite.json").read_text())["baselines_updated"] == []
+    assert _run(workspace, "--update", *argv, capsys=capsys)[0] == 0  # the second run's own content
+    second = json.loads((workspace["root"] / "out" / "suite.json").read_text())
+    assert second["schema"] == "hornproof.regress/1"
+    assert second["baselines_updated"] == ["cases/baselines/horn-a.quick.json"]
+    assert ET.parse(workspace["root"] / "out" / "suite.xml").getroot().get("name") == "hornproof regress (quick)"
+
+
+def test_one_version_string_in_summary_baseline_and_junit(workspace, capsys):
+    assert _run(workspace, "--update", "cases/horn-a.toml", capsys=capsys)[0] == 0
+    build = version.build_version()
+    assert _summary(workspace)["hornproof_version"] == build
+    stored = json.loads((workspace["cases"] / "baselines" / "horn-a.quick.json").read_text())
+    assert stored["hornproof_version"] == build
+    junit = ET.parse(workspace["root"] / "results" / "regress-quick.junit.xml").getroot()
+    properties = {p.get("name"): p.get("value") for p in junit.iter("property")}
+    assert properties["hornproof_version"] == build

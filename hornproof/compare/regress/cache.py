@@ -16,30 +16,25 @@ partial folder, which lookups never read. A failed run's folder is kept for diag
 ``.<key>.failed`` (also never read as a result).
 """
 
-import hashlib
 import json
 import os
 import shutil
 from pathlib import Path
 
 from ...atomic import write_text_atomic
+from ...hashing import content_sha256
+from ..output.result_json import RESULT_SCHEMA
 
 __all__ = [
     "RESULT_FILE",
     "KEY_FILE",
-    "RESULT_SCHEMA",
     "cache_key",
     "ResultCache",
 ]
 
 RESULT_FILE = "result.json"
 KEY_FILE = "cache-key.json"
-RESULT_SCHEMA = "hornproof.result/1"
 KEY_LENGTH = 24  # hex digits of the SHA-256 kept in folder names (96 bits)
-
-
-def _canonical_json(value):
-    return json.dumps(value, sort_keys=True, separators=(",", ":"), ensure_ascii=True, default=str)
 
 
 def cache_key(case_sha256, tier, settings, solver_version, hornproof_version):
@@ -71,8 +66,7 @@ def cache_key(case_sha256, tier, settings, solver_version, hornproof_version):
         "solver_version": str(solver_version),
         "hornproof_version": str(hornproof_version),
     }
-    digest = hashlib.sha256(_canonical_json(inputs).encode("ascii")).hexdigest()
-    return digest[:KEY_LENGTH], inputs
+    return content_sha256(inputs, KEY_LENGTH), inputs
 
 
 def _safe_component(name, what):

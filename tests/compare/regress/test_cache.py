@@ -4,7 +4,7 @@ import json
 
 import pytest
 
-from hornproof.compare.regress.result_cache import KEY_FILE, RESULT_FILE, ResultCache, cache_key
+from hornproof.compare.regress.cache import KEY_FILE, RESULT_FILE, ResultCache, cache_key
 
 BASE = dict(case_sha256="a" * 64, tier="quick", settings={"dims": 2, "cells_per_wavelength": [10.0]},
             solver_version="1.25.0", hornproof_version="0.1.0")
