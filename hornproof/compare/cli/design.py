@@ -21,7 +21,7 @@ from ..output.folders import check_new_file
 from ..output.summary import SAFETY_NOTE, jsonable, safety_lines, emit
 
 
-def add_design_arguments(parser):
+def setup_arguments(parser):
     sub = parser.add_subparsers(dest="design_kind", metavar="QUESTION")
     common = []
     g = sub.add_parser("gain", help="realizable pyramidal horn for a target gain")
@@ -160,7 +160,7 @@ def format_design(summary):
     return "\n".join(lines)
 
 
-def design_command(args):
+def run(args):
     if not getattr(args, "design_kind", None):
         raise InputError("design: say what to design: 'hornproof design gain …' or 'hornproof design flare …'")
     if args.write_case:

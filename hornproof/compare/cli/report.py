@@ -7,7 +7,11 @@ from ...errors import InputError
 from ..output.summary import emit
 
 
-def report_command(args):
+def setup_arguments(parser):
+    parser.add_argument("result_dir", help="a folder holding result.json (from verify or sweep)")
+
+
+def run(args):
     folder = Path(args.result_dir)
     if not folder.is_dir():
         raise InputError(f"{folder}: not a folder (give the folder that holds result.json or sweep.json)")

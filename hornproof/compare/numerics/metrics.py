@@ -44,6 +44,31 @@ def _aligned(model, reference, model_name, reference_name):
     return model, reference
 
 
+def band_centre_index(frequencies):
+    """Index of the band frequency nearest the band's geometric centre sqrt(f_min f_max)."""
+    freqs = np.asarray(frequencies, dtype=float)
+    return int(np.argmin(np.abs(freqs - np.sqrt(freqs.min() * freqs.max()))))
+
+
+def interpolate_cut(theta_to, theta_from, cut):
+    """Cut(s) resampled from angles ``theta_from`` to ``theta_to`` (degrees; NaN outside).
+
+    Parameters
+    ----------
+    theta_to, theta_from : array_like, shape [ntheta_to], [ntheta_from]
+        Angles, degrees, increasing.
+    cut : array_like, shape [nf, ntheta_from] or [ntheta_from]
+        Pattern in dB.
+
+    Returns
+    -------
+    numpy.ndarray, shape [nf, ntheta_to]
+        Linear interpolation in dB (common practice for finely sampled cuts).
+    """
+    cut = np.atleast_2d(np.asarray(cut, dtype=float))
+    return np.array([np.interp(theta_to, theta_from, row, left=np.nan, right=np.nan) for row in cut])
+
+
 def main_lobe_mask(theta_deg, reference_db, level_db=DEFAULT_MAIN_LOBE_LEVEL_DB):
     """Samples of the contiguous main lobe around boresight, down to ``level_db`` below peak.
 

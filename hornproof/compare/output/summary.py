@@ -10,7 +10,7 @@ import math
 
 import numpy as np
 
-from ... import __version__
+from ...version import build_version
 from .safety import RF_EXPOSURE_CAUTION
 
 SCHEMA = "hornproof.result/1"
@@ -55,7 +55,7 @@ def base_summary(case):
         "frequencies_ghz": jsonable(freqs / 1e9),
         "geometry": jsonable(geometry),
         "models": {},
-        "hornproof_version": __version__,
+        "hornproof_version": build_version(),
         "created_utc": datetime.datetime.now(datetime.timezone.utc).isoformat(timespec="seconds"),
         "warnings": list(case.warnings),
         "safety": SAFETY_NOTE,
