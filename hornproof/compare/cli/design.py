@@ -15,6 +15,10 @@ from pathlib import Path
 
 import numpy as np
 
+from ...analytic import design
+from ...analytic.predict import predict
+from ...analytic.waveguide import EIA_WAVEGUIDES, waveguide_size
+from ...atomic import write_text_atomic
 from ...errors import InputError
 from ...units import GHZ, MM
 from ..output.folders import check_new_file
@@ -46,8 +50,6 @@ def setup_arguments(parser):
 
 
 def _guide(args):
-    from ...analytic.waveguide import EIA_WAVEGUIDES, waveguide_size
-
     if args.waveguide and (args.waveguide_a_mm or args.waveguide_b_mm):
         raise InputError("--waveguide: give an EIA name or --waveguide-a-mm/--waveguide-b-mm, not both")
     if args.waveguide:
@@ -73,8 +75,6 @@ def _phase_errors(text):
 
 
 def _design(args):
-    from ...analytic import design
-
     a, b = _guide(args)
     if not args.frequency_ghz > 0:
         raise InputError("--frequency-ghz: must be positive")
@@ -92,8 +92,6 @@ def _design(args):
 
 
 def design_summary(result):
-    from ...analytic.predict import predict
-
     horn = result.horn
     models = predict(horn, [result.frequency])
     summary = {
@@ -168,8 +166,6 @@ def run(args):
     result = _design(args)
     summary = design_summary(result)
     if args.write_case:
-        from ...atomic import write_text_atomic
-
         write_text_atomic(Path(args.write_case), case_text(summary, args.design_kind))
     if args.json:
         emit(json.dumps(summary, indent=1) + "\n")

@@ -12,16 +12,16 @@ def setup_arguments(parser):
 
 
 def run(args):
+    # lazy: the report builder imports matplotlib (slow), which the parser of every command
+    # would otherwise load
+    from ..report.html import build_report, build_sweep_report
+
     folder = Path(args.result_dir)
     if not folder.is_dir():
         raise InputError(f"{folder}: not a folder (give the folder that holds result.json or sweep.json)")
     if (folder / "sweep.json").is_file():
-        from ..report.html import build_sweep_report
-
         path = build_sweep_report(folder)
     elif (folder / "result.json").is_file():
-        from ..report.html import build_report
-
         try:
             json.loads((folder / "result.json").read_text())
         except json.JSONDecodeError as error:

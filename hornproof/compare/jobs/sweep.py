@@ -284,8 +284,6 @@ def analytic_optimum(case, spec, horns, frequency, dims, fdtd_values=None, sampl
     The analytic models are evaluated on a dense grid of the swept parameter between the first
     and last values; FDTD on its samples (with a parabola through the best three).
     """
-    from ...analytic.predict import predict
-
     lo, hi = min(spec.values), max(spec.values)
     dense = np.linspace(lo, hi, samples)
     out = {}

@@ -128,17 +128,17 @@ def error_split(closed_form, exact_phase, fdtd):
         ``aperture_model_error`` = exact phase − FDTD,
         ``total_error`` = closed form − FDTD (= the sum of the other two).
     """
-    cf = np.asarray(closed_form, dtype=float)
-    ep = np.asarray(exact_phase, dtype=float)
-    fd = np.asarray(fdtd, dtype=float)
-    if not (cf.shape == ep.shape == fd.shape):
+    closed_form = np.asarray(closed_form, dtype=float)
+    exact_phase = np.asarray(exact_phase, dtype=float)
+    fdtd = np.asarray(fdtd, dtype=float)
+    if not (closed_form.shape == exact_phase.shape == fdtd.shape):
         raise ValueError(
-            f"closed_form, exact_phase, fdtd: shapes {cf.shape}, {ep.shape}, {fd.shape} differ"
+            f"closed_form, exact_phase, fdtd: shapes {closed_form.shape}, {exact_phase.shape}, {fdtd.shape} differ"
         )
     return {
-        "phase_approximation_error": cf - ep,
-        "aperture_model_error": ep - fd,
-        "total_error": cf - fd,
+        "phase_approximation_error": closed_form - exact_phase,
+        "aperture_model_error": exact_phase - fdtd,
+        "total_error": closed_form - fdtd,
     }
 
 
