@@ -34,7 +34,7 @@ COMMANDS = {
     "simulate": "hornproof.compare.cli.simulate",
     "verify": "hornproof.compare.cli.verify",
     "sweep": "hornproof.compare.cli.sweep",
-    "regress": "hornproof.compare.regress.runner",
+    "regress": "hornproof.compare.cli.regress",
     "design": "hornproof.compare.cli.design",
     "report": "hornproof.compare.cli.report",
 }
@@ -65,11 +65,8 @@ def build_parser():
                        help="show tracebacks for every error")
     for name, module_name in COMMANDS.items():
         module = importlib.import_module(module_name)
-        # until hornproof.compare.cli.regress exists, regress keeps its runner's entry points
-        setup_arguments = getattr(module, "setup_arguments", None) or module.add_regress_arguments
-        run = getattr(module, "run", None) or module.regress_command
-        setup_arguments(sub.add_parser(name, parents=[debug], help=HELP[name]))
-        sub.choices[name].set_defaults(run=run)
+        module.setup_arguments(sub.add_parser(name, parents=[debug], help=HELP[name]))
+        sub.choices[name].set_defaults(run=module.run)
     return parser
 
 
