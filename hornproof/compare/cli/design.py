@@ -15,6 +15,10 @@ from pathlib import Path
 
 import numpy as np
 
+from ...analytic import design
+from ...analytic.predict import predict
+from ...analytic.waveguide import EIA_WAVEGUIDES, waveguide_size
+from ...atomic import write_text_atomic
 from ...errors import InputError
 from ...units import GHZ, MM
 from ..output.folders import check_new_file
@@ -23,7 +27,7 @@ from ..output.summary import SAFETY_NOTE
 from ..output.terminal import emit, safety_lines
 
 
-def add_design_arguments(parser):
+def setup_arguments(parser):
     sub = parser.add_subparsers(dest="design_kind", metavar="QUESTION")
     common = []
     g = sub.add_parser("gain", help="realizable pyramidal horn for a target gain")
@@ -48,8 +52,6 @@ def add_design_arguments(parser):
 
 
 def _guide(args):
-    from ...analytic.waveguide import EIA_WAVEGUIDES, waveguide_size
-
     if args.waveguide and (args.waveguide_a_mm or args.waveguide_b_mm):
         raise InputError("--waveguide: give an EIA name or --waveguide-a-mm/--waveguide-b-mm, not both")
     if args.waveguide:
@@ -75,8 +77,6 @@ def _phase_errors(text):
 
 
 def _design(args):
-    from ...analytic import design
-
     a, b = _guide(args)
     if not args.frequency_ghz > 0:
         raise InputError("--frequency-ghz: must be positive")
@@ -94,8 +94,6 @@ def _design(args):
 
 
 def design_summary(result):
-    from ...analytic.predict import predict
-
     horn = result.horn
     models = predict(horn, [result.frequency])
     summary = {
@@ -162,7 +160,7 @@ def format_design(summary):
     return "\n".join(lines)
 
 
-def design_command(args):
+def run(args):
     if not getattr(args, "design_kind", None):
         raise InputError("design: say what to design: 'hornproof design gain …' or 'hornproof design flare …'")
     if args.write_case:
@@ -170,8 +168,6 @@ def design_command(args):
     result = _design(args)
     summary = design_summary(result)
     if args.write_case:
-        from ...atomic import write_text_atomic
-
         write_text_atomic(Path(args.write_case), case_text(summary, args.design_kind))
     if args.json:
         emit(json.dumps(summary, indent=1) + "\n")

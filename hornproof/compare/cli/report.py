@@ -7,17 +7,21 @@ from ..output.result_json import read_result_json
 from ..output.terminal import emit
 
 
-def report_command(args):
+def setup_arguments(parser):
+    parser.add_argument("result_dir", help="a folder holding result.json (from verify or sweep)")
+
+
+def run(args):
+    # lazy: the report builder imports matplotlib (slow), which the parser of every command
+    # would otherwise load
+    from ..report.html import build_report, build_sweep_report
+
     folder = Path(args.result_dir)
     if not folder.is_dir():
         raise InputError(f"{folder}: not a folder (give the folder that holds result.json or sweep.json)")
     if (folder / "sweep.json").is_file():
-        from ..report.html import build_sweep_report
-
         path = build_sweep_report(folder)
     elif (folder / "result.json").is_file():
-        from ..report.html import build_report
-
         read_result_json(folder / "result.json")
         path = build_report(folder)
     else:

@@ -16,23 +16,32 @@ of everything that defines them (``points/<hash>.json``, written atomically), so
 rerun recomputes nothing it already finished.
 """
 
-import hashlib
+import dataclasses
 import json
 import time
+from dataclasses import dataclass
 from pathlib import Path
 
 import numpy as np
 
-from ... import __version__
+from ...analytic.predict import predict
+from ...atomic import write_text_atomic
 from ...errors import InputError
-from ..case.casefile import load_case
+from ...hashing import content_sha256
+from ...sim import run as fdtd_run
+from ...sim.solver import meep_version
+from ...version import build_version
+from ..numerics.convergence import grid_convergence
+from ..numerics.figures import directivity_key
+from ..numerics.metrics import band_centre_index
+from ..numerics.verdict import breakdown_threshold
 from ..case.sweepspec import PARAMETER_LABELS
-from ..output.folders import check_output_folder
 from ..output.json_document import jsonable
 from ..output.summary import SAFETY_NOTE
 from ..output.sweep_json import SWEEP_SCHEMA, write_sweep_json
-from ..output.terminal import emit_result, safety_lines
-from ..report.format import MISSING_VALUE
+from .ladder import fdtd_figures
+from .messages import is_writer, say
+
 
 #: default grids of a sweep point, relative to the case's sweep.cells_per_wavelength: three
 #: grids give a GCI with an observed order (Celik et al. 2008); two grids force the assumed
@@ -40,40 +49,48 @@ from ..report.format import MISSING_VALUE
 GRID_RATIOS = (1.0, 1.4, 2.0)
 
 
-def _meep_version():
-    try:
-        import meep
+#: hex digits of a sweep point's content hash (its cache file name)
+POINT_KEY_LENGTH = 20
 
-        return meep.__version__
-    except Exception:  # pragma: no cover
-        return None
+
+@dataclass
+class SweepPoint:
+    """One swept value at the band centre: both analytic models and (unless analytic only) FDTD.
+
+    Directivities in dB (dBi in 3D, 2D directivity in 2D); peak phase errors S (H-plane) and
+    T (E-plane) in wavelengths; NaN where a value is not available.
+    """
+
+    value: float
+    closed_form: float
+    exact_phase: float
+    phase_error_h: float
+    phase_error_e: float
+    fdtd: float = float("nan")
+    fdtd_uncertainty: float = float("nan")
+    seconds: float | None = None  # FDTD run time over the point's grids (None: no FDTD)
+    cached: bool | None = None  # FDTD figures read from the point cache (None: no FDTD)
 
 
 def point_key(horn, frequencies, settings, ladder):
     """Content hash of one sweep point: the horn, band, FDTD settings, grids and versions."""
-    import dataclasses
-
     definition = {
         "horn": dataclasses.asdict(horn),
         "frequencies_hz": [float(f) for f in frequencies],
         "settings": jsonable(dataclasses.asdict(settings)),
         "cells_per_wavelength": [float(c) for c in ladder],
-        "hornproof": __version__,
-        "meep": _meep_version(),
+        "hornproof": build_version(),
+        "meep": meep_version(),
     }
-    text = json.dumps(definition, sort_keys=True, default=str)
-    return hashlib.sha256(text.encode()).hexdigest()[:20]
+    return content_sha256(definition, POINT_KEY_LENGTH)
 
 
-def _run_point(horn, frequencies, settings, ladder, force):
-    from ...sim.run import simulate
-    from ..numerics.convergence import grid_convergence
-    from .verify import _fdtd_figures
-
-    results = [simulate(horn, frequencies, settings, float(c), force=force) for c in ladder]
-    figures = [_fdtd_figures(r) for r in results]
-    dkey = "directivity_2d_db" if settings.dims == 2 else "directivity_dbi"
-    values = np.array([[np.nan if v is None else v for v in f[dkey]] for f in figures])
+def run_point(horn, frequencies, settings, ladder, force):
+    """FDTD figures of one sweep point on every grid of ``ladder``, JSON-ready."""
+    results = [fdtd_run.simulate(horn, frequencies, settings, float(c), force=force) for c in ladder]
+    figures = [fdtd_figures(r) for r in results]
+    key = directivity_key(settings.dims)
+    values = np.array([[np.nan if v is None else v for v in f[key]] for f in figures])
     finest = int(np.argmax(ladder))
     point = {"directivity": values[finest].tolist(), "directivity_per_grid": values.tolist(),
              "hpbw_h_deg": figures[finest].get("hpbw_h_deg"), "hpbw_e_deg": figures[finest].get("hpbw_e_deg"),
@@ -81,26 +98,17 @@ def _run_point(horn, frequencies, settings, ladder, force):
              "seconds": [r.run.get("seconds_total") for r in results],
              "wall_thickness_modelled_mm": results[finest].run.get("wall_thickness_modelled_m", np.nan) * 1e3}
     if len(ladder) > 1:
-        est = grid_convergence(values, cells_per_wavelength=ladder, formal_order=1.0)
-        point["uncertainty"] = [e.uncertainty for e in est]
-        point["convergence_status"] = [e.status for e in est]
+        found = grid_convergence(values, cells_per_wavelength=ladder, formal_order=1.0)
+        point["uncertainty"] = [e.uncertainty for e in found]
+        point["convergence_status"] = [e.status for e in found]
     else:
         point["uncertainty"] = [np.nan] * values.shape[1]
         point["convergence_status"] = ["single"] * values.shape[1]
     return jsonable(point)
 
 
-def run_sweep(case, out_dir, *, dims=None, ladder=None, analytic_only=False, force=False, log=None):
-    """Run (or resume) the sweep of ``case``; returns the ``hornproof.sweep/1`` document."""
-    import dataclasses
-
-    from ...analytic.predict import predict
-    from ..numerics.verdict import breakdown_threshold
-    from .verify import _is_master
-
-    from .verify import _say
-
-    log = log or _say
+def sweep_grids(case, dims=None, ladder=None):
+    """The model dimension, the grids (cells per wavelength) and the FDTD settings of a sweep."""
     spec = case.sweep
     if spec is None:
         raise InputError(f"{case.path}: sweep: the case has no [sweep] table")
@@ -112,102 +120,156 @@ def run_sweep(case, out_dir, *, dims=None, ladder=None, analytic_only=False, for
         ladder = [round(first * ratio) for ratio in GRID_RATIOS]
     ladder = [float(c) for c in ladder]
     settings = dataclasses.replace(case.fdtd, dims=dims, cells_per_wavelength=tuple(ladder))
+    return dims, ladder, settings
+
+
+def analytic_point(value, horn, frequencies, centre, dims):
+    """A :class:`SweepPoint` with both analytic models at the band centre (no FDTD yet)."""
+    models = predict(horn, frequencies, dims=dims)
+    return SweepPoint(value=float(value),
+                      closed_form=float(np.asarray(models["closed_form"].directivity_dbi)[centre]),
+                      exact_phase=float(np.asarray(models["exact_phase"].directivity_dbi)[centre]),
+                      phase_error_h=float(horn.phase_error_h(frequencies[centre])),
+                      phase_error_e=float(horn.phase_error_e(frequencies[centre])))
+
+
+def read_cached_point(path):
+    """A finished point's FDTD figures from the cache, or None (missing or unreadable: an
+    unreadable cache entry is recomputed, never trusted)."""
+    if not path.is_file():
+        return None
+    try:
+        return json.loads(path.read_text())
+    except (OSError, json.JSONDecodeError):
+        return None
+
+
+def add_fdtd(point, horn, run, centre, label, log):
+    """Fill the FDTD directivity, uncertainty and run time of ``point`` at the band centre, from
+    the cache of finished points or by running the grids (then cached)."""
+    path = run["points_dir"] / f"{point_key(horn, run['frequencies'], run['settings'], run['ladder'])}.json"
+    figures = read_cached_point(path)
+    point.cached = figures is not None
+    if figures is None:
+        log(f"{label} (S = {point.phase_error_h:.3f}, T = {point.phase_error_e:.3f} wavelengths)")
+        figures = run_point(horn, run["frequencies"], run["settings"], run["ladder"], run["force"])
+        figures["parameter"] = run["parameter"]
+        figures["value"] = point.value
+        if is_writer():
+            write_text_atomic(path, json.dumps(figures, indent=1) + "\n")
+    else:
+        log(f"{label} (cached)")
+    point.fdtd = np.nan if figures["directivity"][centre] is None else figures["directivity"][centre]
+    uncertainty = figures["uncertainty"][centre]
+    point.fdtd_uncertainty = np.nan if uncertainty is None else uncertainty
+    point.seconds = sum(s or 0 for s in figures.get("seconds", []))
+
+
+def run_sweep(case, out_dir, *, dims=None, ladder=None, analytic_only=False, force=False, log=None):
+    """Run (or resume) the sweep of ``case``; returns the ``hornproof.sweep/1`` document."""
+    log = log or say
+    dims, ladder, settings = sweep_grids(case, dims, ladder)
+    spec = case.sweep
     try:
         horns = spec.horns(case.horn)
     except ValueError as error:
         raise InputError(f"{case.path}: sweep.values: {error}")
     freqs = np.asarray(case.frequencies, dtype=float)
-    centre = int(np.argmin(np.abs(freqs - np.sqrt(freqs.min() * freqs.max()))))
+    centre = band_centre_index(freqs)
     out_dir = Path(out_dir)
-    points_dir = out_dir / "points"
-    if _is_master():
-        points_dir.mkdir(parents=True, exist_ok=True)
-    dkey = "directivity_2d_db" if dims == 2 else "directivity_dbi"
-    tolerance = float(case.checks.get("directivity_db", 0.5))
-    values, cf, ep, fd, fd_u, phase_h, phase_e, seconds, computed, reused = [], [], [], [], [], [], [], [], 0, 0
-    t0 = time.monotonic()
+    run = {"points_dir": out_dir / "points", "frequencies": freqs, "settings": settings, "ladder": ladder,
+           "force": force, "parameter": spec.parameter}
+    if is_writer():
+        run["points_dir"].mkdir(parents=True, exist_ok=True)
+    started = time.monotonic()
+    points = []
     for index, (value, horn) in enumerate(horns, start=1):
-        models = predict(horn, freqs, dims=dims)
-        values.append(float(value))
-        cf.append(float(np.asarray(models["closed_form"].directivity_dbi)[centre]))
-        ep.append(float(np.asarray(models["exact_phase"].directivity_dbi)[centre]))
-        phase_h.append(float(horn.phase_error_h(freqs[centre])))
-        phase_e.append(float(horn.phase_error_e(freqs[centre])))
-        if analytic_only:
-            fd.append(np.nan)
-            fd_u.append(np.nan)
-            continue
-        key = point_key(horn, freqs, settings, ladder)
-        path = points_dir / f"{key}.json"
-        point = None
-        if path.is_file():
-            try:
-                point = json.loads(path.read_text())
-                reused += 1
-            except (OSError, json.JSONDecodeError):
-                point = None  # an unreadable cache entry is recomputed, never trusted
-        if point is None:
-            log(f"hornproof: sweep point {index}/{len(horns)}: {spec.parameter} = {value:g} "
-                f"(S = {phase_h[-1]:.3f}, T = {phase_e[-1]:.3f} wavelengths)")
-            point = _run_point(horn, freqs, settings, ladder, force)
-            point["parameter"] = spec.parameter
-            point["value"] = float(value)
-            if _is_master():
-                from ...atomic import write_text_atomic
+        point = analytic_point(value, horn, freqs, centre, dims)
+        if not analytic_only:
+            label = f"hornproof: sweep point {index}/{len(horns)}: {spec.parameter} = {value:g}"
+            add_fdtd(point, horn, run, centre, label, log)
+        points.append(point)
+    document = sweep_document(case, points, horns, dims, ladder, analytic_only, time.monotonic() - started)
+    if is_writer():
+        write_sweep_folder(out_dir, document)
+    return document
 
-                write_text_atomic(path, json.dumps(point, indent=1) + "\n")
-            computed += 1
-        else:
-            log(f"hornproof: sweep point {index}/{len(horns)}: {spec.parameter} = {value:g} (cached)")
-        fd.append(np.nan if point["directivity"][centre] is None else point["directivity"][centre])
-        u = point["uncertainty"][centre]
-        fd_u.append(np.nan if u is None else u)
-        seconds.append(sum(s or 0 for s in point.get("seconds", [])))
-    values_a, cf_a, ep_a, fd_a, u_a = map(np.asarray, (values, cf, ep, fd, fd_u))
-    phase_err = cf_a - ep_a
-    aperture_err = ep_a - fd_a
-    total_err = cf_a - fd_a
-    zero = np.zeros_like(values_a)
-    breakdown = {"phase_approximation": breakdown_threshold(values_a, phase_err, zero, tolerance)}
+
+def error_split(points, tolerance, analytic_only):
+    """Errors, their uncertainties and breakdown thresholds along the sweep."""
+    values = np.asarray([p.value for p in points])
+    closed_form = np.asarray([p.closed_form for p in points])
+    exact_phase = np.asarray([p.exact_phase for p in points])
+    fdtd = np.asarray([p.fdtd for p in points])
+    fdtd_uncertainty = [p.fdtd_uncertainty for p in points]
+    phase_error, aperture_error, total_error = closed_form - exact_phase, exact_phase - fdtd, closed_form - fdtd
+    zero = np.zeros_like(values)
+    breakdown = {"phase_approximation": breakdown_threshold(values, phase_error, zero, tolerance)}
     if not analytic_only:
-        usable_u = np.where(np.isfinite(u_a), u_a, 0.0)
-        breakdown["aperture_model"] = breakdown_threshold(values_a, aperture_err, usable_u, tolerance)
-        breakdown["total"] = breakdown_threshold(values_a, total_err, usable_u, tolerance)
+        usable = np.asarray(fdtd_uncertainty)
+        usable = np.where(np.isfinite(usable), usable, 0.0)
+        breakdown["aperture_model"] = breakdown_threshold(values, aperture_error, usable, tolerance)
+        breakdown["total"] = breakdown_threshold(values, total_error, usable, tolerance)
+    errors = {"phase_approximation": phase_error, "aperture_model": None if analytic_only else aperture_error,
+              "total": None if analytic_only else total_error}
+    uncertainties = {"phase_approximation": zero, "aperture_model": None if analytic_only else fdtd_uncertainty,
+                     "total": None if analytic_only else fdtd_uncertainty}
+    return errors, uncertainties, breakdown
+
+
+def sweep_solver_block(points, ladder, dims, seconds):
+    """The ``solver`` block of sweep.json (FDTD runs only)."""
+    return {"name": "meep", "meep": meep_version(), "dims": dims, "cells_per_wavelength": ladder,
+            "uncertainty": ("two-grid GCI, safety factor 3, assumed first order" if len(ladder) == 2 else
+                            "grid convergence index over the grids" if len(ladder) > 2 else
+                            "single grid: no numerical uncertainty estimated (treated as 0)"),
+            "points_computed": sum(1 for p in points if p.cached is False),
+            "points_reused": sum(1 for p in points if p.cached),
+            "seconds": seconds, "seconds_per_point": [p.seconds for p in points if p.seconds is not None]}
+
+
+def sweep_document(case, points, horns, dims, ladder, analytic_only, seconds):
+    """The ``hornproof.sweep/1`` document of finished ``points``."""
+    spec = case.sweep
+    freqs = np.asarray(case.frequencies, dtype=float)
+    centre = band_centre_index(freqs)
+    tolerance = float(case.checks.get("directivity_db", 0.5))
+    errors, uncertainties, breakdown = error_split(points, tolerance, analytic_only)
+    fdtd = [p.fdtd for p in points]
     label, unit = PARAMETER_LABELS[spec.parameter]
     document = {
         "schema": SWEEP_SCHEMA, "case": case.name, "title": case.title, "case_sha256": case.sha256,
-        "parameter": {"name": spec.parameter, "label": label, "unit": unit, "values": values,
+        "parameter": {"name": spec.parameter, "label": label, "unit": unit, "values": [p.value for p in points],
                       "held_fixed": "flare half-angles" if spec.parameter == "flare_length_mm" else "flare length"},
         "frequency_ghz": float(freqs[centre] / 1e9),
-        "figure": {"name": dkey, "label": "2D directivity" if dims == 2 else "Directivity", "unit": "dB"},
+        "figure": {"name": directivity_key(dims), "label": "2D directivity" if dims == 2 else "Directivity",
+                   "unit": "dB"},
         "tolerance": tolerance,
-        "models": {"closed_form": cf, "exact_phase": ep, "fdtd": None if analytic_only else fd},
-        "fdtd_uncertainty": None if analytic_only else fd_u,
-        "errors": {"phase_approximation": phase_err, "aperture_model": None if analytic_only else aperture_err,
-                   "total": None if analytic_only else total_err},
-        "uncertainties": {"phase_approximation": zero, "aperture_model": None if analytic_only else fd_u,
-                          "total": None if analytic_only else fd_u},
+        "models": {"closed_form": [p.closed_form for p in points], "exact_phase": [p.exact_phase for p in points],
+                   "fdtd": None if analytic_only else fdtd},
+        "fdtd_uncertainty": None if analytic_only else [p.fdtd_uncertainty for p in points],
+        "errors": errors,
+        "uncertainties": uncertainties,
         "breakdown": breakdown,
-        "phase_error_h_wl": phase_h, "phase_error_e_wl": phase_e,
-        "optimum": analytic_optimum(case, spec, horns, freqs[centre], dims, fd if not analytic_only else None),
-        "solver": {"name": "meep", "meep": _meep_version(), "dims": dims, "cells_per_wavelength": ladder,
-                   "uncertainty": ("two-grid GCI, safety factor 3, assumed first order" if len(ladder) == 2 else
-                                   "grid convergence index over the grids" if len(ladder) > 2 else
-                                   "single grid: no numerical uncertainty estimated (treated as 0)"),
-                   "points_computed": computed, "points_reused": reused,
-                   "seconds": time.monotonic() - t0, "seconds_per_point": seconds} if not analytic_only else
-                  {"name": "none (analytic only)"},
+        "phase_error_h_wl": [p.phase_error_h for p in points], "phase_error_e_wl": [p.phase_error_e for p in points],
+        "optimum": analytic_optimum(case, spec, horns, freqs[centre], dims, fdtd if not analytic_only else None),
+        "solver": ({"name": "none (analytic only)"} if analytic_only else
+                   sweep_solver_block(points, ladder, dims, seconds)),
         "warnings": list(case.warnings), "safety": SAFETY_NOTE,
-        "hornproof_version": __version__,
+        "hornproof_version": build_version(),
     }
-    document = jsonable(document)
-    if _is_master():
-        from ..report.html import build_sweep_report
+    return jsonable(document)
 
-        _plot_sweep(out_dir, document)
-        write_sweep_json(out_dir / "sweep.json", document)
-        build_sweep_report(out_dir)
-    return document
+
+def write_sweep_folder(out_dir, document):
+    """sweep.json, its plots and report.html into ``out_dir`` (the writing process only)."""
+    # lazy: the plots and the report load matplotlib and templates (slow) only when writing
+    from ..report.html import build_sweep_report
+    from .sweep_plots import write_sweep_plots
+
+    write_sweep_plots(out_dir, document)
+    write_sweep_json(out_dir / "sweep.json", document)
+    build_sweep_report(out_dir)
 
 
 def analytic_optimum(case, spec, horns, frequency, dims, fdtd_values=None, samples=161):
@@ -216,8 +278,6 @@ def analytic_optimum(case, spec, horns, frequency, dims, fdtd_values=None, sampl
     The analytic models are evaluated on a dense grid of the swept parameter between the first
     and last values; FDTD on its samples (with a parabola through the best three).
     """
-    from ...analytic.predict import predict
-
     lo, hi = min(spec.values), max(spec.values)
     dense = np.linspace(lo, hi, samples)
     out = {}
@@ -254,98 +314,3 @@ def analytic_optimum(case, spec, horns, frequency, dims, fdtd_values=None, sampl
                        "phase_error_h_wl": float(horn.phase_error_h(frequency)),
                        "phase_error_e_wl": float(horn.phase_error_e(frequency))}
     return out
-
-
-def _plot_sweep(folder, document):
-    from ..report import plots
-
-    p = document["parameter"]
-    errors, unc = document["errors"], document["uncertainties"]
-
-    def arr(v):
-        return None if v is None else np.array([np.nan if x is None else x for x in v], dtype=float)
-
-    plots.plot_error_vs_parameter(
-        arr(p["values"]), arr(errors["phase_approximation"]), arr(errors["aperture_model"]),
-        folder / "error_vs_parameter", total_error=arr(errors.get("total")), phase_approximation_uncertainty=0.0,
-        aperture_model_uncertainty=arr(unc["aperture_model"]), total_uncertainty=arr(unc.get("total")),
-        tolerance=document["tolerance"],
-        breakdown=document["breakdown"], parameter_label=p["label"], parameter_unit=p["unit"],
-        error_label=f"{document['figure']['label']} error", error_unit="dB",
-        case_title=f"{document['title']} — at {document['frequency_ghz']:.3g} GHz")
-    _plot_directivity_vs_parameter(folder / "directivity_vs_parameter", document)
-
-
-def _plot_directivity_vs_parameter(path_stem, document):
-    from ..report import plots
-
-    p = document["parameter"]
-    x = np.asarray(p["values"], dtype=float)
-    fig, ax = plots.new_figure()
-    for name in ("closed_form", "exact_phase", "fdtd"):
-        y = document["models"].get(name)
-        if y is None:
-            continue
-        y = np.array([np.nan if v is None else v for v in y], dtype=float)
-        ax.plot(x, y, "-o", markersize=4, color=plots.MODEL_COLOURS[name], label=plots.MODEL_LABELS[name])
-        if name == "fdtd" and document.get("fdtd_uncertainty") is not None:
-            u = np.array([np.nan if v is None else v for v in document["fdtd_uncertainty"]], dtype=float)
-            if np.any(np.isfinite(u)):
-                ax.errorbar(x, y, yerr=np.where(np.isfinite(u), u, 0), fmt="none",
-                            ecolor=plots.MODEL_COLOURS[name], capsize=3, linewidth=1)
-    for name, best in (document.get("optimum") or {}).items():
-        if best and best.get("interior") and name in plots.MODEL_COLOURS:
-            ax.axvline(best["value"], color=plots.MODEL_COLOURS[name], linestyle=":", linewidth=1.2,
-                       label=f"{plots.MODEL_LABELS[name].split(' (')[0]} peak: {best['value']:.3g} {p['unit']}, "
-                             f"S = {best['phase_error_h_wl']:.2f}, T = {best['phase_error_e_wl']:.2f} wl")
-    ax.set_xlabel(f"{p['label']} ({p['unit']})")
-    ax.set_ylabel(f"{document['figure']['label']} ({document['figure']['unit']})")
-    ax.set_title(f"{document['title']}\n{document['figure']['label']} at {document['frequency_ghz']:.3g} GHz "
-                 f"vs {p['label'].lower()} ({p['held_fixed']} fixed)", loc="left", fontsize=10)
-    ax.legend(loc="upper center", bbox_to_anchor=(0.5, -0.16), ncol=1, fontsize=8, frameon=False)
-    fig.subplots_adjust(bottom=0.38)
-    plots.save_figure(fig, path_stem)
-
-
-def format_sweep(document):
-    p = document["parameter"]
-    lines = [f"{document['case']}: {document['title']}",
-             f"  {document['figure']['label']} at {document['frequency_ghz']:.3g} GHz vs {p['label']} ({p['unit']}), "
-             f"{p['held_fixed']} fixed; tolerance {document['tolerance']:g} dB",
-             f"  {p['unit']:>8} {'S wl':>6} {'T wl':>6} {'closed':>8} {'exact':>8} {'FDTD':>8} {'+-':>6} "
-             f"{'phase err':>9} {'aperture err':>12}"]
-
-    def f(v, w=8, d=2):
-        return MISSING_VALUE.rjust(w) if v is None else f"{v:{w}.{d}f}"
-
-    fd = document["models"]["fdtd"] or [None] * len(p["values"])
-    u = document["fdtd_uncertainty"] or [None] * len(p["values"])
-    ap = document["errors"]["aperture_model"] or [None] * len(p["values"])
-    for i, value in enumerate(p["values"]):
-        lines.append(f"  {value:8.3g} {document['phase_error_h_wl'][i]:6.3f} {document['phase_error_e_wl'][i]:6.3f} "
-                     f"{f(document['models']['closed_form'][i])} {f(document['models']['exact_phase'][i])} "
-                     f"{f(fd[i])} {f(u[i], 6)} {f(document['errors']['phase_approximation'][i], 9)} {f(ap[i], 12)}")
-    for key, where in document["breakdown"].items():
-        text = ("never within the sweep" if where is None else "already at the first value" if where == "below range"
-                else f"{where:.3g} {p['unit']}")
-        lines.append(f"  breakdown of the {key.replace('_', ' ')}: {text}")
-    for name, best in (document.get("optimum") or {}).items():
-        lines.append(f"  {name.replace('_', ' ')} peaks at {best['value']:.3g} {p['unit']} "
-                     f"(S = {best['phase_error_h_wl']:.3f}, T = {best['phase_error_e_wl']:.3f} wavelengths)"
-                     + ("" if best["interior"] else " — at the edge of the sweep"))
-    lines.append(safety_lines())
-    return "\n".join(lines)
-
-
-def sweep_command(args):
-    case = load_case(args.case)
-    out_dir = check_output_folder(Path(args.out) if args.out else Path("results") / f"{case.name}-sweep",
-                                  "--out" if args.out else "the default sweep folder",
-                                  markers=("sweep.json",), allow_partial=("points",))
-    document = run_sweep(case, out_dir, dims=args.dims, ladder=args.cells_per_wavelength,
-                         analytic_only=args.analytic_only, force=args.force)
-    from .verify import _is_master
-
-    if _is_master():
-        emit_result(args.json, document, format_sweep(document), f"report: {out_dir / 'report.html'}")
-    return 0

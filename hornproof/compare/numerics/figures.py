@@ -36,7 +36,7 @@ class Figure:
 
 FIGURES = {figure.key: figure for figure in (
     Figure("directivity_dbi", "directivity_db", "Directivity", "dB", ("directivity_dbi", "directivity_db")),
-    Figure("directivity_2d_db", "directivity_2d_db", "2D directivity (dB per unit length)", "dB",
+    Figure("directivity_2d_db", "directivity_2d_db", "2D directivity", "dB",
            ("directivity_2d_db", "directivity_db")),
     Figure("gain_dbi", None, "Gain", "dB", ("gain_dbi", "gain_db", "directivity_db")),
     Figure("realized_gain_dbi", "realized_gain_db", "Realized gain", "dB",

@@ -1,4 +1,7 @@
-"""Differences between two horn models, figure by figure and over the pattern cuts.
+"""Differences between two horn models over their pattern cuts (the main-lobe pattern error).
+
+Figure-by-figure differences (one number per frequency) are plain subtractions, done where the
+comparison is built (:func:`hornproof.compare.numerics.verdict.comparison_block`).
 
 Every function here is pure and NaN-aware: arrays in, arrays out. A *figure* is one number per
 band frequency (shape ``[nf]``: directivity, realized gain, HPBW, first-null angle, sidelobe
@@ -16,21 +19,6 @@ metrics of ``analytic.pattern_metrics`` already report in degrees; nothing here 
 from dataclasses import dataclass
 
 import numpy as np
-
-#: The figure keys of ``ModelResult.figures()`` that :func:`figure_differences` compares,
-#: with the unit of their difference.
-FIGURE_UNITS = {
-    "directivity_dbi": "dB",
-    "directivity_2d_db": "dB",
-    "gain_dbi": "dB",
-    "realized_gain_dbi": "dB",
-    "hpbw_h_deg": "deg",
-    "hpbw_e_deg": "deg",
-    "first_null_h_deg": "deg",
-    "first_null_e_deg": "deg",
-    "sll_h_db": "dB",
-    "sll_e_db": "dB",
-}
 
 #: Default level of the main-lobe window for the pattern error: 10 dB below the reference peak.
 DEFAULT_MAIN_LOBE_LEVEL_DB = -10.0
@@ -56,89 +44,29 @@ def _aligned(model, reference, model_name, reference_name):
     return model, reference
 
 
-def figure_difference(model, reference):
-    """Difference of one figure between two models at every band frequency.
+def band_centre_index(frequencies):
+    """Index of the band frequency nearest the band's geometric centre sqrt(f_min f_max)."""
+    freqs = np.asarray(frequencies, dtype=float)
+    return int(np.argmin(np.abs(freqs - np.sqrt(freqs.min() * freqs.max()))))
+
+
+def interpolate_cut(theta_to, theta_from, cut):
+    """Cut(s) resampled from angles ``theta_from`` to ``theta_to`` (degrees; NaN outside).
 
     Parameters
     ----------
-    model, reference : array_like, shape [nf]
-        The same figure (e.g. directivity in dBi, HPBW in degrees) from the model under test
-        and from the reference model, aligned with the band frequencies. NaN marks a value a
-        model does not provide.
+    theta_to, theta_from : array_like, shape [ntheta_to], [ntheta_from]
+        Angles, degrees, increasing.
+    cut : array_like, shape [nf, ntheta_from] or [ntheta_from]
+        Pattern in dB.
 
     Returns
     -------
-    numpy.ndarray, shape [nf]
-        ``model - reference`` in the figure's own unit (dB for dB figures, degrees for angle
-        figures); NaN where either input is NaN.
-
-    Notes
-    -----
-    A difference of two decibel values is a ratio in dB, so directivity, gain and sidelobe
-    differences are all plain subtractions (common practice).
+    numpy.ndarray, shape [nf, ntheta_to]
+        Linear interpolation in dB (common practice for finely sampled cuts).
     """
-    model, reference = _aligned(model, reference, "model", "reference")
-    return model - reference
-
-
-def directivity_difference_db(model_dbi, reference_dbi):
-    """Directivity difference in dB, ``model - reference`` (arrays [nf] in dBi).
-
-    See :func:`figure_difference`.
-    """
-    return figure_difference(model_dbi, reference_dbi)
-
-
-def realized_gain_difference_db(model_dbi, reference_dbi):
-    """Realized-gain difference in dB, ``model - reference`` (arrays [nf] in dBi).
-
-    Realized gain includes the mismatch loss 1 − |S11|²; only a full-wave model provides it,
-    so the closed forms compare against it through their directivity (lossless, matched).
-    """
-    return figure_difference(model_dbi, reference_dbi)
-
-
-def beamwidth_difference_deg(model_deg, reference_deg):
-    """HPBW or first-null angle difference in degrees, ``model - reference`` (arrays [nf])."""
-    return figure_difference(model_deg, reference_deg)
-
-
-def sidelobe_level_difference_db(model_db, reference_db):
-    """First-sidelobe level difference in dB, ``model - reference`` (arrays [nf], dB re peak).
-
-    A positive value means the model predicts a higher (worse) sidelobe than the reference.
-    """
-    return figure_difference(model_db, reference_db)
-
-
-def figure_differences(model_figures, reference_figures, keys=None):
-    """All figure differences that both models provide.
-
-    Parameters
-    ----------
-    model_figures, reference_figures : dict of str -> array_like [nf]
-        Figures keyed as in ``ModelResult.figures()`` (e.g. ``"directivity_dbi"``,
-        ``"hpbw_h_deg"``). ``None`` entries (JSON null) count as NaN.
-    keys : iterable of str, optional
-        Figures to compare; default every key of :data:`FIGURE_UNITS` present in both.
-
-    Returns
-    -------
-    dict of str -> numpy.ndarray [nf]
-        ``model - reference`` per key.
-    """
-    if keys is None:
-        keys = [k for k in FIGURE_UNITS if k in model_figures and k in reference_figures]
-    out = {}
-    for key in keys:
-        if key not in model_figures:
-            raise ValueError(f"model_figures: no figure {key!r}")
-        if key not in reference_figures:
-            raise ValueError(f"reference_figures: no figure {key!r}")
-        model = [np.nan if v is None else v for v in np.atleast_1d(model_figures[key]).tolist()]
-        ref = [np.nan if v is None else v for v in np.atleast_1d(reference_figures[key]).tolist()]
-        out[key] = figure_difference(model, ref)
-    return out
+    cut = np.atleast_2d(np.asarray(cut, dtype=float))
+    return np.array([np.interp(theta_to, theta_from, row, left=np.nan, right=np.nan) for row in cut])
 
 
 def main_lobe_mask(theta_deg, reference_db, level_db=DEFAULT_MAIN_LOBE_LEVEL_DB):

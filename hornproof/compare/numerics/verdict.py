@@ -33,6 +33,8 @@ and Heat Transfer (comparison error E and validation uncertainty u_val).
 
 import numpy as np
 
+from .figures import METRICS
+
 VERDICTS = ("agrees", "disagrees", "unresolved", "missing")
 
 
@@ -126,17 +128,17 @@ def error_split(closed_form, exact_phase, fdtd):
         ``aperture_model_error`` = exact phase − FDTD,
         ``total_error`` = closed form − FDTD (= the sum of the other two).
     """
-    cf = np.asarray(closed_form, dtype=float)
-    ep = np.asarray(exact_phase, dtype=float)
-    fd = np.asarray(fdtd, dtype=float)
-    if not (cf.shape == ep.shape == fd.shape):
+    closed_form = np.asarray(closed_form, dtype=float)
+    exact_phase = np.asarray(exact_phase, dtype=float)
+    fdtd = np.asarray(fdtd, dtype=float)
+    if not (closed_form.shape == exact_phase.shape == fdtd.shape):
         raise ValueError(
-            f"closed_form, exact_phase, fdtd: shapes {cf.shape}, {ep.shape}, {fd.shape} differ"
+            f"closed_form, exact_phase, fdtd: shapes {closed_form.shape}, {exact_phase.shape}, {fdtd.shape} differ"
         )
     return {
-        "phase_approximation_error": cf - ep,
-        "aperture_model_error": ep - fd,
-        "total_error": cf - fd,
+        "phase_approximation_error": closed_form - exact_phase,
+        "aperture_model_error": exact_phase - fdtd,
+        "total_error": closed_form - fdtd,
     }
 
 
@@ -193,18 +195,9 @@ def breakdown_threshold(parameter_values, errors, uncertainties, tolerance):
     return float(x0 + (0.0 - m0) * (x1 - x0) / (m1 - m0))
 
 
-#: Metric name in the comparison block -> (figure key in result.json models, label, unit).
-COMPARED_FIGURES = {
-    "directivity_db": ("directivity_dbi", "Directivity", "dB"),
-    "directivity_2d_db": ("directivity_2d_db", "2D directivity", "dB"),
-    "realized_gain_db": ("realized_gain_dbi", "Realized gain", "dB"),
-    "hpbw_h_deg": ("hpbw_h_deg", "HPBW, H-plane", "deg"),
-    "hpbw_e_deg": ("hpbw_e_deg", "HPBW, E-plane", "deg"),
-    "first_null_h_deg": ("first_null_h_deg", "First null, H-plane", "deg"),
-    "first_null_e_deg": ("first_null_e_deg", "First null, E-plane", "deg"),
-    "sll_h_db": ("sll_h_db", "Sidelobe level, H-plane", "dB"),
-    "sll_e_db": ("sll_e_db", "Sidelobe level, E-plane", "dB"),
-}
+#: Metric name in the comparison block -> (figure key in result.json models, label, unit): a
+#: read of the one figure table (:data:`hornproof.compare.numerics.figures.METRICS`).
+COMPARED_FIGURES = {metric: (figure.key, figure.label, figure.unit) for metric, figure in METRICS.items()}
 
 
 def _column(figures, key, nf):
@@ -262,30 +255,30 @@ def comparison_block(frequencies, models, tolerances, fdtd_uncertainties=None, *
         # Realized gain: only FDTD has it; the analytic models are lossless and matched, so
         # their directivity is their realized gain.
         analytic_key = "directivity_dbi" if key == "realized_gain_dbi" else key
-        cf = _column(models.get("closed_form"), analytic_key, nf)
-        ep = _column(models.get("exact_phase"), analytic_key, nf)
-        fd = _column(models.get("fdtd"), key, nf)
-        u = np.broadcast_to(np.asarray(
+        closed_form = _column(models.get("closed_form"), analytic_key, nf)
+        exact_phase = _column(models.get("exact_phase"), analytic_key, nf)
+        fdtd = _column(models.get("fdtd"), key, nf)
+        fdtd_uncertainty = np.broadcast_to(np.asarray(
             [np.nan if v is None else v for v in np.atleast_1d(fdtd_uncertainties.get(metric, np.nan)).tolist()],
             dtype=float), (nf,))
-        split = error_split(cf, ep, fd)
-        checked = cf if model_checked == "closed_form" else ep
-        difference = checked - fd
-        v = verdicts(difference, tolerance, u)
-        all_verdicts.extend(v)
+        split = error_split(closed_form, exact_phase, fdtd)
+        checked = closed_form if model_checked == "closed_form" else exact_phase
+        difference = checked - fdtd
+        metric_verdicts = verdicts(difference, tolerance, fdtd_uncertainty)
+        all_verdicts.extend(metric_verdicts)
         rows = []
         for i in range(nf):
             rows.append({
                 "frequency_ghz": _json_float(f[i] / 1e9),
-                "closed_form": _json_float(cf[i]),
-                "exact_phase": _json_float(ep[i]),
-                "fdtd": _json_float(fd[i]),
-                "fdtd_uncertainty": _json_float(u[i]),
+                "closed_form": _json_float(closed_form[i]),
+                "exact_phase": _json_float(exact_phase[i]),
+                "fdtd": _json_float(fdtd[i]),
+                "fdtd_uncertainty": _json_float(fdtd_uncertainty[i]),
                 "difference": _json_float(difference[i]),
                 "phase_approximation_error": _json_float(split["phase_approximation_error"][i]),
                 "aperture_model_error": _json_float(split["aperture_model_error"][i]),
                 "total_error": _json_float(split["total_error"][i]),
-                "verdict": v[i],
+                "verdict": metric_verdicts[i],
             })
         metrics.append({"metric": metric, "label": label, "unit": unit,
                         "tolerance": float(tolerance), "per_frequency": rows})

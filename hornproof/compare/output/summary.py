@@ -8,10 +8,10 @@ import datetime
 
 import numpy as np
 
-from ... import __version__
 from ...units import GHZ
 from .json_document import jsonable
 from .result_json import RESULT_SCHEMA
+from ...version import build_version
 from .safety import RF_EXPOSURE_CAUTION
 
 #: the RF-exposure caution carried by every summary and report (one wording, in safety.py)
@@ -36,7 +36,7 @@ def base_summary(case):
         "frequencies_ghz": jsonable(freqs / GHZ),
         "geometry": jsonable(geometry),
         "models": {},
-        "hornproof_version": __version__,
+        "hornproof_version": build_version(),
         "created_utc": datetime.datetime.now(datetime.timezone.utc).isoformat(timespec="seconds"),
         "warnings": list(case.warnings),
         "safety": SAFETY_NOTE,

@@ -12,6 +12,7 @@ from pathlib import Path
 import pytest
 
 from hornproof.compare.cli.main import main
+from hornproof.version import VERSION, build_version
 
 ROOT = Path(__file__).resolve().parents[3]
 DEMO = ROOT / "cases" / "demo-h-sectoral.toml"
@@ -26,6 +27,9 @@ def test_predict_json_follows_the_result_schema(capsys):
     assert main(["predict", str(DEMO), "--json"]) == 0
     summary = json.loads(capsys.readouterr().out)
     assert summary["schema"] == "hornproof.result/1"
+    # the one version string every output records: release plus source digest
+    assert summary["hornproof_version"] == build_version()
+    assert summary["hornproof_version"].startswith(VERSION + "+src.")
     nf = len(summary["frequencies_ghz"])
     assert nf == 5
     for key in ("apex_h_mm", "apex_e_mm", "flare_half_angle_h_deg", "flare_half_angle_e_deg",

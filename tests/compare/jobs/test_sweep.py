@@ -18,7 +18,7 @@ import numpy as np
 import pytest
 
 from hornproof.compare.case.casefile import load_case
-from hornproof.compare.jobs.sweep import run_sweep
+from hornproof.compare.jobs.sweep import point_key, run_sweep, sweep_grids
 
 ROOT = Path(__file__).resolve().parents[3]
 
@@ -120,3 +120,17 @@ def test_killed_sweep_recomputes_nothing_finished(tmp_path):
     again = run_sweep(case, out, ladder=[10], log=lambda m: None)
     assert again["solver"]["points_computed"] == 0
     assert again["models"]["fdtd"] == doc["models"]["fdtd"]
+
+
+def test_point_key_names_the_point_by_its_content(tmp_path):
+    # The cache file name of a sweep point is a 20-digit content hash of everything that defines
+    # the point: the same definition gives the same key, a different horn or grid another one.
+    case = _case(tmp_path, values="[10, 20]")
+    dims, ladder, settings = sweep_grids(case)
+    assert ladder == [10.0, 14.0, 20.0]  # GRID_RATIOS 1, 1.4, 2 times the sweep's 10 cells per wavelength
+    (_, first), (_, second) = case.sweep.horns(case.horn)
+    key = point_key(first, case.frequencies, settings, ladder)
+    assert len(key) == 20 and all(c in "0123456789abcdef" for c in key)
+    assert point_key(first, case.frequencies, settings, ladder) == key
+    assert point_key(second, case.frequencies, settings, ladder) != key
+    assert point_key(first, case.frequencies, settings, ladder[:2]) != key

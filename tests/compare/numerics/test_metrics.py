@@ -90,26 +90,6 @@ def test_normalized_pattern_error_removes_the_directivity_offset():
     assert metrics.pattern_error(THETA, model, ref).rms_db[0] == pytest.approx(1.3)
 
 
-def test_figure_differences_per_key_with_nulls():
-    # Figures as in ModelResult.figures(): JSON null is NaN; only keys both models have are
-    # compared; the difference is model − reference.
-    diffs = metrics.figure_differences(
-        {"directivity_dbi": [15.2, None], "hpbw_h_deg": [30.0, 28.0], "sll_e_db": [-12.0, -13.0]},
-        {"directivity_dbi": [15.0, 16.0], "hpbw_h_deg": [31.0, 27.5], "sll_e_db": [-13.26, -13.0]},
-    )
-    np.testing.assert_allclose(diffs["directivity_dbi"], [0.2, np.nan])
-    np.testing.assert_allclose(diffs["hpbw_h_deg"], [-1.0, 0.5])
-    # −13.26 dB: first sidelobe of a uniform line source (Silver 1949, Table 6.1, from memory).
-    np.testing.assert_allclose(diffs["sll_e_db"], [1.26, 0.0], atol=1e-12)
-    assert set(diffs) == {"directivity_dbi", "hpbw_h_deg", "sll_e_db"}
-
-
-def test_named_differences_and_shape_errors():
-    np.testing.assert_allclose(metrics.directivity_difference_db([10.0], [9.5]), [0.5])
-    np.testing.assert_allclose(metrics.realized_gain_difference_db([9.0], [9.5]), [-0.5])
-    np.testing.assert_allclose(metrics.beamwidth_difference_deg([12.0], [10.0]), [2.0])
-    np.testing.assert_allclose(metrics.sidelobe_level_difference_db([-20.0], [-23.0]), [3.0])
-    with pytest.raises(ValueError, match="model"):
-        metrics.figure_difference([1.0, 2.0], [1.0])
+def test_shape_errors():
     with pytest.raises(ValueError, match="theta_deg"):
         metrics.pattern_error(THETA[::-1], THETA, THETA)

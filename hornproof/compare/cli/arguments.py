@@ -1,0 +1,17 @@
+"""Argument types shared by several subcommands."""
+
+import argparse
+
+from ...limits import MAX_CELLS_PER_WAVELENGTH, MIN_CELLS_PER_WAVELENGTH
+
+
+def cells_per_wavelength_list(text):
+    """``--cells-per-wavelength N[,N2,...]``: grid densities within hornproof's limits."""
+    try:
+        values = [float(v) for v in text.split(",") if v.strip()]
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"expected numbers separated by commas, got {text!r}")
+    if not values or any(not MIN_CELLS_PER_WAVELENGTH <= v <= MAX_CELLS_PER_WAVELENGTH for v in values):
+        raise argparse.ArgumentTypeError(f"cells per wavelength must be numbers from {MIN_CELLS_PER_WAVELENGTH:g} "
+                                         f"to {MAX_CELLS_PER_WAVELENGTH:g}")
+    return values
