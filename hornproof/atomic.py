@@ -8,9 +8,10 @@ target is left as it was.
 
 import contextlib
 import os
+import shutil
 import tempfile
 
-__all__ = ["atomic_path", "write_bytes_atomic", "write_text_atomic"]
+__all__ = ["atomic_path", "write_bytes_atomic", "write_text_atomic", "replace_folder"]
 
 
 def _fsync_directory(directory):
@@ -95,3 +96,19 @@ def write_text_atomic(path, text, encoding="utf-8"):
     if not isinstance(text, str):
         raise ValueError(f"text: expected str, got {type(text).__name__}")
     write_bytes_atomic(path, text.encode(encoding))
+
+
+def replace_folder(source, target, aside):
+    """Rename the finished folder ``source`` onto ``target``, replacing a folder already there.
+
+    Folders cannot be swapped in one atomic step: an existing ``target`` is first renamed to
+    ``aside`` (a free name in the same parent), then ``source`` onto ``target``, then ``aside``
+    is removed. A reader sees the old folder, briefly no folder, or the complete new one —
+    never a mixture.
+    """
+    if os.path.exists(target):
+        os.replace(target, aside)
+        os.replace(source, target)
+        shutil.rmtree(aside, ignore_errors=True)
+    else:
+        os.replace(source, target)

@@ -31,8 +31,8 @@ that trough. Pinned in tests/analytic/test_exact_phase.py.
 
 import numpy as np
 
-from ..units import wavelength as _wavelength
-from . import line_source as _ls
+from .. import units
+from . import line_source
 from .fresnel import fresnel, quadratic_phase_integral
 
 __all__ = [
@@ -100,7 +100,7 @@ def e_plane_integral(ky, aperture_b, apex_e, wavenumber):
 
 def line_power(width, apex, wavenumber, taper="uniform"):
     """∫|e|² across the plane (phase does not change it): width/2 (cosine) or width, m."""
-    return np.full(np.shape(wavenumber), _ls.taper_power(width, taper))
+    return np.full(np.shape(wavenumber), line_source.taper_power(width, taper))
 
 
 def _integral(kappa, line, wavenumber):
@@ -162,10 +162,10 @@ def boresight_directivity(aperture_a, aperture_b, apex_h, apex_e, wavelength):
 
 def directivity(horn, frequency, *, phase_reference="axial"):
     """Boresight directivity (linear) of ``horn`` at ``frequency`` (Hz, array), closed form."""
-    f = _ls.check_frequency(frequency)
-    h_line, e_line = _ls.horn_line_sources(horn, phase_reference)
+    f = line_source.check_frequency(frequency)
+    h_line, e_line = line_source.horn_line_sources(horn, phase_reference)
     return boresight_directivity(horn.aperture_a, horn.aperture_b, h_line.apex, e_line.apex,
-                                 _wavelength(f))
+                                 units.wavelength(f))
 
 
 def principal_plane_cuts(horn, frequency, theta_deg, *, equivalent="huygens", phase_reference="axial"):
@@ -174,8 +174,8 @@ def principal_plane_cuts(horn, frequency, theta_deg, *, equivalent="huygens", ph
     H-plane φ = 0, E-plane φ = 90°; θ in degrees, negative on the −x / −y side. Beyond 90°
     the same formula is evaluated (see ``line_source`` for what that means).
     """
-    lines = _ls.horn_line_sources(horn, phase_reference)
-    return _ls.principal_plane_cuts(_integral, _power, lines, frequency, theta_deg, equivalent)
+    lines = line_source.horn_line_sources(horn, phase_reference)
+    return line_source.principal_plane_cuts(_integral, _power, lines, frequency, theta_deg, equivalent)
 
 
 def pattern(horn, frequency, theta_deg, phi_deg, *, equivalent="huygens", phase_reference="axial",
@@ -184,17 +184,17 @@ def pattern(horn, frequency, theta_deg, phi_deg, *, equivalent="huygens", phase_
 
     ``components=True`` returns the complex (e_θ, e_φ) with D = |e_θ|² + |e_φ|².
     """
-    lines = _ls.horn_line_sources(horn, phase_reference)
-    return _ls.pattern(_integral, _power, lines, frequency, theta_deg, phi_deg, equivalent, components)
+    lines = line_source.horn_line_sources(horn, phase_reference)
+    return line_source.pattern(_integral, _power, lines, frequency, theta_deg, phi_deg, equivalent, components)
 
 
 def directivity_2d(horn, frequency, *, phase_reference="axial"):
     """2D directivity D₂ = 2π|∫e dx|²/(λ∫|e|²dx) of a sectoral horn's flared plane (linear)."""
-    _, line = _ls.flared_line_source(horn, phase_reference)
-    return _ls.directivity_2d(_integral, _power, line, frequency)
+    _, line = line_source.flared_line_source(horn, phase_reference)
+    return line_source.directivity_2d(_integral, _power, line, frequency)
 
 
 def flared_plane_cut_2d(horn, frequency, theta_deg, *, equivalent="huygens", phase_reference="axial"):
     """2D directivity cut (linear) of a sectoral horn's flared plane; returns (plane, D₂)."""
-    plane, line = _ls.flared_line_source(horn, phase_reference)
-    return plane, _ls.cut_2d(_integral, _power, line, plane, frequency, theta_deg, equivalent)
+    plane, line = line_source.flared_line_source(horn, phase_reference)
+    return plane, line_source.cut_2d(_integral, _power, line, plane, frequency, theta_deg, equivalent)

@@ -29,7 +29,7 @@ import numpy as np
 from scipy.optimize import brentq, minimize_scalar
 
 from ..units import GHZ, to_mm
-from ..units import wavelength as _wavelength
+from .. import units
 from . import closed_form
 from . import exact_phase
 from .gain_reduction import e_plane_efficiency, h_plane_efficiency
@@ -137,7 +137,7 @@ def optimum_aperture(plane, guide_size, flare_length, frequency, *, model="close
     _check_model(model)
     d = _check_length(guide_size, "guide_size")
     length = _check_length(flare_length, "flare_length")
-    wl = float(_wavelength(_check_scalar_frequency(frequency)))
+    wl = float(units.wavelength(_check_scalar_frequency(frequency)))
 
     def negative(size):
         return -_plane_factor(plane, size, apex_distance(d, size, length), wl, model)
@@ -152,7 +152,7 @@ def optimum_aperture(plane, guide_size, flare_length, frequency, *, model="close
 
 
 def _design(horn, frequency, model, phase_reference="axial"):
-    wl = float(_wavelength(frequency))
+    wl = float(units.wavelength(frequency))
     if model == "closed_form":
         d = float(closed_form.directivity(horn, frequency, phase_reference=phase_reference))
     else:
@@ -271,7 +271,7 @@ def design_for_gain(gain_dbi, frequency, guide_a, guide_b, *, phase_errors="rule
         s, t = (float(v) for v in phase_errors)
         if not (s > 0 and t > 0 and np.isfinite(s) and np.isfinite(t)):
             raise ValueError(f"phase_errors must be positive (S, T) in wavelengths, got {phase_errors!r}")
-    wl = float(_wavelength(f))
+    wl = float(units.wavelength(f))
 
     def horn_at(length):
         big_a, _ = _plane_for_flare_length(length, a, s, wl, phase_reference)

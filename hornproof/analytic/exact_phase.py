@@ -29,8 +29,8 @@ from functools import lru_cache
 
 import numpy as np
 
-from ..units import wavelength as _wavelength
-from . import line_source as _ls
+from .. import units
+from . import line_source
 
 __all__ = [
     "node_count",
@@ -79,7 +79,7 @@ def _phase_path(x, apex, phase_law):
 
 
 def _amplitude(x, width, apex, taper, amplitude_factor):
-    amp = _ls.taper_values(x, width, taper)
+    amp = line_source.taper_values(x, width, taper)
     if amplitude_factor and np.isfinite(apex):
         amp = amp * np.sqrt(apex / np.sqrt(apex * apex + x * x))
     return amp
@@ -153,7 +153,7 @@ def e_plane_integral(ky, aperture_b, apex_e, wavenumber, **options):
 def line_power(width, apex, wavenumber, taper="uniform", *, amplitude_factor=False):
     """∫|e|² across the plane, m: the taper's (w/2 or w) unless the amplitude factor applies."""
     if not (amplitude_factor and np.isfinite(apex)):
-        return np.full(np.shape(wavenumber), _ls.taper_power(width, taper))
+        return np.full(np.shape(wavenumber), line_source.taper_power(width, taper))
     t, w = _gauss_legendre(96)
     x = 0.5 * width * t
     value = float(np.sum(0.5 * width * w * _amplitude(x, width, apex, taper, True) ** 2))
@@ -179,14 +179,14 @@ class _Model:
 def directivity(horn, frequency, *, amplitude_factor=False, phase_law="exact", nodes=None):
     """Boresight directivity (linear) of ``horn`` over ``frequency`` (Hz), exact path."""
     m = _Model(amplitude_factor, phase_law, nodes)
-    return _ls.directivity(m.integral, m.power, _ls.horn_line_sources(horn), frequency)
+    return line_source.directivity(m.integral, m.power, line_source.horn_line_sources(horn), frequency)
 
 
 def principal_plane_cuts(horn, frequency, theta_deg, *, equivalent="huygens", amplitude_factor=False,
                          phase_law="exact", nodes=None):
     """(H-plane, E-plane) directivity cuts (linear), shape frequency.shape + theta.shape."""
     m = _Model(amplitude_factor, phase_law, nodes)
-    return _ls.principal_plane_cuts(m.integral, m.power, _ls.horn_line_sources(horn), frequency,
+    return line_source.principal_plane_cuts(m.integral, m.power, line_source.horn_line_sources(horn), frequency,
                                     theta_deg, equivalent)
 
 
@@ -194,28 +194,28 @@ def pattern(horn, frequency, theta_deg, phi_deg, *, equivalent="huygens", amplit
             phase_law="exact", nodes=None, components=False):
     """Full directivity pattern D(θ, φ) (linear) at one frequency; θ, φ in degrees, broadcast."""
     m = _Model(amplitude_factor, phase_law, nodes)
-    return _ls.pattern(m.integral, m.power, _ls.horn_line_sources(horn), frequency, theta_deg, phi_deg,
+    return line_source.pattern(m.integral, m.power, line_source.horn_line_sources(horn), frequency, theta_deg, phi_deg,
                        equivalent, components)
 
 
 def directivity_2d(horn, frequency, *, amplitude_factor=False, phase_law="exact", nodes=None):
     """2D directivity D₂ (linear) of a sectoral horn's flared plane, exact path."""
     m = _Model(amplitude_factor, phase_law, nodes)
-    _, line = _ls.flared_line_source(horn)
-    return _ls.directivity_2d(m.integral, m.power, line, frequency)
+    _, line = line_source.flared_line_source(horn)
+    return line_source.directivity_2d(m.integral, m.power, line, frequency)
 
 
 def flared_plane_cut_2d(horn, frequency, theta_deg, *, equivalent="huygens", amplitude_factor=False,
                         phase_law="exact", nodes=None):
     """2D directivity cut (linear) of a sectoral horn's flared plane; returns (plane, D₂)."""
     m = _Model(amplitude_factor, phase_law, nodes)
-    plane, line = _ls.flared_line_source(horn)
-    return plane, _ls.cut_2d(m.integral, m.power, line, plane, frequency, theta_deg, equivalent)
+    plane, line = line_source.flared_line_source(horn)
+    return plane, line_source.cut_2d(m.integral, m.power, line, plane, frequency, theta_deg, equivalent)
 
 
 def edge_path(width, apex, frequency):
     """Exact extra path at the aperture edge, √(R² + (w/2)²) − R, in wavelengths."""
-    wl = _wavelength(frequency)
+    wl = units.wavelength(frequency)
     if not np.isfinite(apex):
         return np.zeros_like(wl)
     h = 0.5 * width

@@ -46,7 +46,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from ..units import wavelength as _wavelength
+from .. import units
 
 EQUIVALENTS = ("huygens", "e-field")
 TAPERS = ("cosine", "uniform")
@@ -173,7 +173,7 @@ def element_factor_components(theta, phi, equivalent):
 
 
 def _wavenumber(frequency):
-    return 2.0 * np.pi / _wavelength(frequency)
+    return 2.0 * np.pi / units.wavelength(frequency)
 
 
 def directivity(integral, power, lines, frequency):
@@ -183,7 +183,7 @@ def directivity(integral, power, lines, frequency):
     h_line, e_line = lines
     ih = integral(np.zeros_like(k), h_line, k)
     ie = integral(np.zeros_like(k), e_line, k)
-    wl = _wavelength(f)
+    wl = units.wavelength(f)
     return 4 * np.pi / wl**2 * np.abs(ih * ie) ** 2 / (power(h_line, k) * power(e_line, k))
 
 

@@ -6,7 +6,7 @@ The entry point of the analytic side (DEVELOPERS.md, "Interfaces between the pac
 import numpy as np
 
 from ..units import db10
-from ..units import wavelength as _wavelength
+from .. import units
 from . import closed_form
 from . import exact_phase
 from .line_source import check_equivalent, check_frequency, flared_line_source
@@ -68,7 +68,7 @@ def predict(horn, frequencies, *, theta_deg=None, equivalent="huygens", dims=3):
     theta = DEFAULT_THETA_DEG if theta_deg is None else np.atleast_1d(np.asarray(theta_deg, dtype=float))
     if theta.ndim != 1 or not np.all(np.isfinite(theta)):
         raise ValueError("theta_deg must be a one-dimensional array of finite angles in degrees")
-    wl = _wavelength(f)
+    wl = units.wavelength(f)
     phase_errors = {
         "phase_error_h_wl": horn.phase_error_h(f) * np.ones_like(f),
         "phase_error_e_wl": horn.phase_error_e(f) * np.ones_like(f),

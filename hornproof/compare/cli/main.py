@@ -14,7 +14,7 @@ import sys
 
 from ...errors import HornproofError, InputError
 from ...version import VERSION
-from ..jobs.messages import is_main_process
+from ..jobs.messages import is_main_process, silence_solver_exit_banner
 from ..output import terminal
 
 DESCRIPTION = """\
@@ -114,7 +114,7 @@ def main(argv=None):
     finally:
         signal.signal(signal.SIGTERM, previous_sigterm)
         terminal.set_result_stream(None)
-        _quiet_meep_exit()
+        silence_solver_exit_banner()
 
 
 class _Terminated(BaseException):
@@ -125,12 +125,6 @@ class _Terminated(BaseException):
 def _terminate(signum, frame):
     raise _Terminated()
 
-
-def _quiet_meep_exit():
-    """Meep reports "Elapsed run time" on standard output at exit; hornproof reports its own times."""
-    from ...sim.exit_banner import silence_exit_banner
-
-    silence_exit_banner()
 
 
 if __name__ == "__main__":  # pragma: no cover

@@ -10,16 +10,13 @@ from ..numerics.figures import directivity_key
 from ..report.format import MISSING_VALUE
 from ..output.folders import check_output_folder
 from ..output.terminal import emit_result, safety_lines
-from .arguments import cells_per_wavelength_list
+from .arguments import add_fdtd_run_arguments
 
 
 def setup_arguments(parser):
-    parser.add_argument("case")
-    parser.add_argument("--cells-per-wavelength", type=cells_per_wavelength_list, metavar="N",
-                        help="grid density at f_max, one value (default: the finest of the case's ladder)")
-    parser.add_argument("--out", metavar="DIR", help="output folder (default: results/<case>/<hash>/fdtd-<N>)")
-    parser.add_argument("--json", action="store_true")
-    parser.add_argument("--force", action="store_true", help="run even if the estimate exceeds free memory")
+    add_fdtd_run_arguments(parser, cells_metavar="N",
+                           cells_help="grid density at f_max, one value (default: the finest of the case's ladder)",
+                           out_help="output folder (default: results/<case>/<hash>/fdtd-<N>)")
     parser.add_argument("--image", action="store_true", help="also write model.png (two cuts through the axis)")
 
 

@@ -9,16 +9,13 @@ from ..jobs.verify import default_out_dir, verify_case
 from ..report.format import MISSING_VALUE
 from ..output.folders import check_output_folder
 from ..output.terminal import emit_result, safety_lines
-from .arguments import cells_per_wavelength_list
+from .arguments import add_fdtd_run_arguments
 
 
 def setup_arguments(parser):
-    parser.add_argument("case")
-    parser.add_argument("--cells-per-wavelength", type=cells_per_wavelength_list, metavar="N1,N2,N3",
-                        help="convergence ladder, overrides the case's own (e.g. 16,20,24)")
-    parser.add_argument("--out", metavar="DIR", help="output folder (default: results/<case>/<hash>)")
-    parser.add_argument("--json", action="store_true")
-    parser.add_argument("--force", action="store_true", help="run even if the estimate exceeds free memory")
+    add_fdtd_run_arguments(parser, cells_metavar="N1,N2,N3",
+                           cells_help="convergence ladder, overrides the case's own (e.g. 16,20,24)",
+                           out_help="output folder (default: results/<case>/<hash>)")
 
 
 def format_verdicts(summary):

@@ -12,7 +12,7 @@ import numpy as np
 
 from ...sim import run as fdtd_run
 from ...sim.estimate import available_memory_bytes, estimate_for_layout
-from ...sim.model import plan_layout
+from ...sim.layout import plan_layout
 from ...sim.progress import ProgressReporter
 from ..numerics.convergence import grid_convergence
 from ..numerics.figures import directivity_key

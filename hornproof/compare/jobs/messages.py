@@ -33,3 +33,10 @@ def is_main_process():
         return is_master()
     except Exception:  # pragma: no cover - an MPI layer that cannot answer: act as serial
         return True
+
+
+def silence_solver_exit_banner():
+    """Keep Meep's "Elapsed run time" exit line off standard output (``--json`` stays pure JSON)."""
+    from ...sim.exit_banner import silence_exit_banner  # lazy: only the command's end needs it
+
+    silence_exit_banner()

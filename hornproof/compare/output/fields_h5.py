@@ -18,7 +18,7 @@ Every dataset has a ``units`` attribute::
 
 File attributes: ``schema``, ``solver`` ("meep"), ``solver_version``, ``cells_per_wavelength``,
 ``resolution`` (cells per metre), ``wall_thickness_modelled_m``, ``case_sha256``,
-``case_name``, ``hornproof_version``, ``created`` (UTC, ISO 8601), ``dims``, ``model_name``.
+``case_name``, ``hornproof_version`` (``hornproof.version.build_version()``), ``created`` (UTC, ISO 8601), ``dims``, ``model_name``.
 (dB/deg are edge units: this file is read by people and plotting tools as well as by us.)
 
 What the writer reads
@@ -41,7 +41,7 @@ import os
 
 import numpy as np
 
-from ... import __version__ as hornproof_version
+from ...version import build_version
 from ...atomic import atomic_path
 from ...errors import InputError
 from .schema_check import refuse_schema
@@ -97,7 +97,7 @@ def _write_attributes(handle, result, case_sha256, case_name):
     handle.attrs["wall_thickness_modelled_m"] = _attr_value(run.get("wall_thickness_modelled_m"))
     handle.attrs["case_sha256"] = str(case_sha256)
     handle.attrs["case_name"] = str(case_name)
-    handle.attrs["hornproof_version"] = hornproof_version
+    handle.attrs["hornproof_version"] = build_version()
     handle.attrs["created"] = _utc_now()
     handle.attrs["model_name"] = str(result.name)
     handle.attrs["dims"] = int(result.dims)

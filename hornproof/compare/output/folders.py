@@ -11,6 +11,7 @@ import shutil
 import tempfile
 from pathlib import Path
 
+from ...atomic import replace_folder
 from ...errors import InputError
 from .result_json import RESULT_SCHEMA
 from .sweep_json import SWEEP_SCHEMA
@@ -119,14 +120,9 @@ def publish_folder(out_dir, write):
     try:
         write(staging)
         os.chmod(staging, 0o755)
-        if out_dir.exists():
-            old = Path(tempfile.mkdtemp(prefix=f".{out_dir.name}.old-", dir=out_dir.parent))
-            os.rmdir(old)
-            os.replace(out_dir, old)
-            os.replace(staging, out_dir)
-            shutil.rmtree(old, ignore_errors=True)
-        else:
-            os.replace(staging, out_dir)
+        old = Path(tempfile.mkdtemp(prefix=f".{out_dir.name}.old-", dir=out_dir.parent))
+        os.rmdir(old)
+        replace_folder(staging, out_dir, old)
     except BaseException:
         shutil.rmtree(staging, ignore_errors=True)
         raise

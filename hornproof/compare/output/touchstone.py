@@ -26,7 +26,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from ... import __version__ as hornproof_version
+from ...version import build_version
 from ...atomic import write_text_atomic
 from ...units import GHZ
 
@@ -116,7 +116,7 @@ def write_s1p(path, frequencies, s11, *, case_name, solver_version, version=1,
         raise ValueError("reference_resistance: must be a positive number of ohm")
     created = created or datetime.datetime.now(datetime.timezone.utc)
     lines = [
-        f"! hornproof {hornproof_version} one-port reflection of the horn feed",
+        f"! hornproof {build_version()} one-port reflection of the horn feed",
         f"! case: {_clean_comment(case_name)}",
         f"! solver: {_clean_comment(solver_version)}",
         f"! created: {created.isoformat(timespec='seconds')}",

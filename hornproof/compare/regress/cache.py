@@ -21,7 +21,7 @@ import os
 import shutil
 from pathlib import Path
 
-from ...atomic import write_text_atomic
+from ...atomic import replace_folder, write_text_atomic
 from ...hashing import content_sha256
 from ..output.result_json import RESULT_SCHEMA
 
@@ -152,17 +152,12 @@ class ResultCache:
             raise ValueError(f"{partial / RESULT_FILE}: schema: expected {RESULT_SCHEMA!r}")
         write_text_atomic(partial / KEY_FILE, json.dumps(inputs, indent=2, sort_keys=True) + "\n")
         final = self.entry_dir(case_name, key)
-        if final.exists():
-            # Another run published the same key meanwhile (or a broken entry is in the way):
-            # move it aside first so the rename below is a plain atomic directory rename.
-            aside = final.with_name(f".{key}.replaced-{partial.name.rsplit('-', 1)[-1]}")
-            if aside.exists():
-                shutil.rmtree(aside)
-            os.replace(final, aside)
-            os.replace(partial, final)
-            shutil.rmtree(aside, ignore_errors=True)
-        else:
-            os.replace(partial, final)
+        # another run may have published the same key meanwhile (or a broken entry is in the
+        # way): replace_folder moves it aside first
+        aside = final.with_name(f".{key}.replaced-{partial.name.rsplit('-', 1)[-1]}")
+        if aside.exists():
+            shutil.rmtree(aside)
+        replace_folder(partial, final, aside)
         return final
 
     def keep_failed(self, partial, case_name, key):

@@ -95,6 +95,14 @@ def plot_pattern_overlay(theta_deg, closed_form_dbi, exact_phase_dbi, fdtd_dbi, 
     return save_figure(fig, path_stem)
 
 
+def axis_values(values, name, unit_text=""):
+    """A plot's x values as a float array; ``ValueError`` naming ``name`` unless non-empty 1-D."""
+    array = float_array(values, name)
+    if array.ndim != 1 or array.size == 0:
+        raise ValueError(f"{name}: must be a non-empty 1-D array{unit_text}")
+    return array
+
+
 def _clip_to_values(ax, series, shape, margin_db=3.0):
     """Keep the values readable when an error bar is huge: the vertical axis spans the plotted
     values ± ``margin_db``; bars that run past it are marked with a note."""
@@ -136,9 +144,7 @@ def plot_directivity_vs_frequency(frequencies, closed_form_dbi, exact_phase_dbi,
     -------
     tuple of str
     """
-    f = float_array(frequencies, "frequencies")
-    if f.ndim != 1 or f.size == 0:
-        raise ValueError("frequencies: must be a non-empty 1-D array (Hz)")
+    f = axis_values(frequencies, "frequencies", " (Hz)")
     f_ghz = f / GHZ
     fig, ax = new_figure()
     markers = {"closed_form": "s", "exact_phase": "D", "fdtd": "o"}
@@ -299,9 +305,7 @@ def plot_error_vs_parameter(parameter_values, phase_approximation_error, apertur
     -------
     tuple of str
     """
-    x = float_array(parameter_values, "parameter_values")
-    if x.ndim != 1 or x.size == 0:
-        raise ValueError("parameter_values: must be a non-empty 1-D array")
+    x = axis_values(parameter_values, "parameter_values")
     order = np.argsort(x)
     x = x[order]
     fig, ax = new_figure(height=4.8)

@@ -8,6 +8,7 @@ for its keys). Numbers are formatted by :mod:`hornproof.compare.report.format`.
 import math
 
 from ...units import GHZ
+from ..numerics.figures import directivity_key
 from ..numerics.verdict import COMPARED_FIGURES
 from . import plots
 from .format import CHECK_NAMES, MISSING_VALUE, number, quantity_rows, unit_decimals
@@ -179,7 +180,7 @@ def render_missing_result_figures(folder, result):
     frequencies = [g * GHZ for g in f_ghz]
     models = result.get("models", {})
     title = result.get("title") or result.get("case", "")
-    key = "directivity_2d_db" if result.get("dims") == 2 else "directivity_dbi"
+    key = directivity_key(result.get("dims") or 3)
     unit = "dB" if key == "directivity_2d_db" else "dBi"
     if not (folder / "directivity_vs_frequency.png").exists():
         curves = [models.get(m, {}).get(key) for m in ("closed_form", "exact_phase", "fdtd")]
