@@ -265,7 +265,7 @@ def write_sweep_folder(out_dir, document):
     """sweep.json, its plots and report.html into ``out_dir`` (the writing process only)."""
     # lazy: the plots and the report load matplotlib and templates (slow) only when writing
     from ..report.html import build_sweep_report
-    from .sweep_plots import write_sweep_plots
+    from ..report.sweep_plots import write_sweep_plots
 
     write_sweep_plots(out_dir, document)
     write_sweep_json(out_dir / "sweep.json", document)

@@ -204,7 +204,7 @@ def publish(out_dir, case, summary, models, sim_results, ladder, convergence, im
     """Write every output into a staging folder, then swap it into place (``publish_folder``)."""
     # lazy: the report builder loads its templates and matplotlib (slow) only when a folder is written
     from ..report.html import build_report
-    from .verify_plots import write_verify_plots
+    from ..report.verify_plots import write_verify_plots
 
     def write(staging):
         write_result_files(staging, case, summary, sim_results, ladder)

@@ -5,8 +5,8 @@ import numpy as np
 
 # hornproof.compare.report.plots imports matplotlib at its top; this module is imported only
 # when a sweep folder is written (lazy for speed, see jobs.sweep.write_sweep_folder)
-from ..report import plots
-from ..report.figure_style import new_figure
+from . import plots
+from .figure_style import new_figure
 
 
 def _float_or_none(values):
