@@ -20,6 +20,7 @@ import numpy as np
 
 from ..analytic.waveguide import te10_guide_wavelength
 from ..units import GHZ, SPEED_OF_LIGHT
+from .grid_fit import whole_cells
 from .walls import MIN_WALL_CELLS, wall_outline
 
 #: margin between the source and the start of the mode-fit window, and between the window end
@@ -139,19 +140,23 @@ def _longest_guide_wavelength(horn, f_min, tem):
 
 
 def _modelled_sizes(horn, unit, cell):
-    """Guide, aperture, flare length and wall of the model, rounded to whole cells (Meep units).
+    """Guide, aperture, flare length and wall of the model in whole cells (Meep units): widths
+    an even number of cells (mirror symmetry), lengths a whole number (``grid_fit.whole_cells``;
+    ``grid_fit.fit_grid`` chooses the cell so that these land on the nominal sizes).
 
     Returns (guide_a, guide_b, aperture_a, aperture_b, flare_length, wall).
     """
-    a = 2 * _cells(horn.guide_a / unit / 2, cell) * cell
-    b = 2 * _cells(horn.guide_b / unit / 2, cell) * cell
-    big_a = max(a, 2 * _cells(horn.aperture_a / unit / 2, cell) * cell)
-    big_b = max(b, 2 * _cells(horn.aperture_b / unit / 2, cell) * cell)
+    def width(size):
+        return float(whole_cells(size / unit, cell, "width")) * cell
+
+    a, b = width(horn.guide_a), width(horn.guide_b)
+    big_a = max(a, width(horn.aperture_a))
+    big_b = max(b, width(horn.aperture_b))
     if horn.kind == "h-sectoral":
         big_b = b
     if horn.kind == "e-sectoral":
         big_a = a
-    length = _cells(horn.flare_length / unit, cell) * cell
+    length = float(whole_cells(horn.flare_length / unit, cell, "length")) * cell
     wall = max(MIN_WALL_CELLS, _cells(horn.wall_thickness / unit, cell)) * cell
     return a, b, big_a, big_b, length, wall
 

@@ -29,6 +29,9 @@ class FdtdSettings:
         Angular step of the principal-plane cuts.
     full_pattern_step_deg : float or None
         Step of the full (θ, φ) far-field grid; None skips it.
+    target_uncertainty_db : float or None
+        ``verify`` adds finer rungs until every checked dB figure's uncertainty is at most this
+        and no checked figure is unresolved (None: the ladder as given).
     farfield_method : {"fast", "meep"}
         Far-field transform: "fast", the numpy far-zone transform of the Yee-grid surface
         currents (``sim.farfield_transform.fast_far_fields``), or "meep", Meep's ``get_farfield`` point by
@@ -46,4 +49,5 @@ class FdtdSettings:
     pattern_step_deg: float = 1.0
     full_pattern_step_deg: float = None
     farfield_method: str = "fast"
+    target_uncertainty_db: float = None
     extra: dict = field(default_factory=dict)

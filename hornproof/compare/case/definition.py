@@ -53,7 +53,8 @@ def _validated_fields(path, raw, tier, cells_override):
     horn = read_horn(read_table(raw, "horn", required=True))
     band = read_band(read_table(raw, "band", required=True), "band")
     check_band_against_guide(band, horn)
-    fdtd_fields, quick_2d = read_fdtd(read_table(raw, "fdtd", required=False), horn)
+    fdtd_fields, quick_2d = read_fdtd(read_table(raw, "fdtd", required=False), horn,
+                                      float(max(band_frequencies(band))))
     checks, check_model = read_checks(read_table(raw, "checks", required=False))
     sweep = read_sweep(read_table(raw, "sweep", required=False), horn, fdtd_fields)
     tiers = read_tiers(read_table(raw, "tiers", required=False), horn, band, fdtd_fields,

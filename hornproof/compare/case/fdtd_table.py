@@ -8,6 +8,7 @@ arguments, and warns when a grid is too coarse for the narrowest opening of the 
 import math
 
 from ...limits import MAX_CELLS_PER_WAVELENGTH, MIN_CELLS_ACROSS_OPENING, MIN_CELLS_PER_WAVELENGTH
+from ...sim.grid_fit import default_ladder
 from ...sim.settings import FdtdSettings
 from ...units import GHZ, MM, SPEED_OF_LIGHT
 from .values import (
@@ -24,13 +25,13 @@ from .values import (
 
 FDTD_KEYS = ("dims", "cells_per_wavelength", "pml_wavelengths", "padding_wavelengths",
              "feed_length_wavelengths", "decay_by", "max_time_periods", "symmetry",
-             "pattern_step_deg", "full_pattern_step_deg", "quick_2d")
-#: Default ladder when ``fdtd.cells_per_wavelength`` is absent.
-DEFAULT_CELLS_PER_WAVELENGTH = (12.0,)
+             "pattern_step_deg", "full_pattern_step_deg", "quick_2d", "target_uncertainty_db")
 
 
-def read_fdtd(table, horn):
-    """FdtdSettings keyword arguments, and the quick_2d flag."""
+def read_fdtd(table, horn, f_max):
+    """FdtdSettings keyword arguments, and the quick_2d flag. Without
+    ``cells_per_wavelength`` the ladder is the default rule of ``sim.grid_fit.default_ladder``
+    (six cells across the narrowest opening on the coarsest rung, ratio 1.3, three rungs)."""
     check_keys(table, FDTD_KEYS, "fdtd")
     defaults = FdtdSettings()
     fields = {}
@@ -40,7 +41,8 @@ def read_fdtd(table, horn):
         fields["cells_per_wavelength"] = read_cells_ladder(table["cells_per_wavelength"],
                                                            "fdtd.cells_per_wavelength")
     else:
-        fields["cells_per_wavelength"] = DEFAULT_CELLS_PER_WAVELENGTH
+        plane = None if fields["dims"] == 3 else ("h" if horn.kind == "h-sectoral" else "e")
+        fields["cells_per_wavelength"] = tuple(default_ladder(horn, f_max, fields["dims"], plane=plane))
     fields["pml_wavelengths"] = read_positive(table, "pml_wavelengths", "fdtd",
                                               unit="wavelengths",
                                               default=defaults.pml_wavelengths)
@@ -56,6 +58,9 @@ def read_fdtd(table, horn):
                                                unit="periods of f_min",
                                                default=defaults.max_time_periods)
     fields["use_symmetry"] = read_boolean(table, "symmetry", "fdtd", defaults.use_symmetry)
+    if "target_uncertainty_db" in table:
+        fields["target_uncertainty_db"] = read_bounded(table, "target_uncertainty_db", "fdtd", None, 0.0, 10.0,
+                                                       unit="dB")
     fields["pattern_step_deg"] = read_bounded(table, "pattern_step_deg", "fdtd",
                                               defaults.pattern_step_deg, 0.0, 30.0,
                                               unit="degrees")

@@ -5,6 +5,8 @@ from pathlib import Path
 
 from ..case.casefile import load_case
 from ..jobs.messages import is_writer, say
+from ...errors import InputError
+from ..jobs.refine import RefinementGoal
 from ..jobs.verify import default_out_dir, verify_case
 from ..report.format import MISSING_VALUE
 from ..output.folders import check_output_folder
@@ -16,6 +18,13 @@ def setup_arguments(parser):
     add_fdtd_run_arguments(parser, cells_metavar="N1,N2,N3",
                            cells_help="convergence ladder, overrides the case's own (e.g. 16,20,24)",
                            out_help="output folder (default: results/<case>/<hash>)")
+    parser.add_argument("--target-uncertainty", type=float, metavar="DB",
+                        help="add finer rungs until every checked dB figure's uncertainty is at most DB "
+                             "and no checked figure is unresolved (default: the case's "
+                             "fdtd.target_uncertainty_db, else the ladder as given)")
+    parser.add_argument("--budget", type=float, metavar="SECONDS",
+                        help="with refinement: stop before a rung that would take the whole ladder past "
+                             "SECONDS (estimated from the rungs run so far)")
 
 
 def format_verdicts(summary):
@@ -47,6 +56,20 @@ def format_verdicts(summary):
     return "\n".join(lines)
 
 
+def refinement_goal(case, args):
+    """The refinement goal from --target-uncertainty / --budget and the case; None: no refinement."""
+    target = args.target_uncertainty if args.target_uncertainty is not None else case.fdtd.target_uncertainty_db
+    if args.target_uncertainty is not None and not 0 < args.target_uncertainty <= 10:
+        raise InputError(f"--target-uncertainty: {args.target_uncertainty:g} dB is outside (0, 10] dB")
+    if args.budget is not None and not args.budget > 0:
+        raise InputError(f"--budget: {args.budget:g} s must be positive")
+    if target is None:
+        if args.budget is not None:
+            raise InputError("--budget: give --target-uncertainty too (or fdtd.target_uncertainty_db in the case)")
+        return None
+    return RefinementGoal(float(target), args.budget)
+
+
 def run(args):
     case = load_case(args.case)
     if args.cells_per_wavelength:
@@ -55,7 +78,8 @@ def run(args):
         say(f"hornproof: warning: {warning}")
     out_dir = check_output_folder(Path(args.out) if args.out else default_out_dir(case),
                                   "--out" if args.out else "the default result folder")
-    summary = verify_case(case, out_dir, force=args.force)
+    goal = refinement_goal(case, args)
+    summary = verify_case(case, out_dir, force=args.force, goal=goal)
     if is_writer():
         emit_result(args.json, summary, format_verdicts(summary), f"report: {out_dir / 'report.html'}")
     return 1 if summary["comparison"]["failed_checks"] else 0

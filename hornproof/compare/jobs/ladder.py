@@ -50,7 +50,7 @@ def resource_line(case, cells_per_wavelength):
 
 def progress_reporter(case, cells_per_wavelength):
     """The default progress display of one FDTD run of ``case`` (a terminal line on stderr)."""
-    return ProgressReporter(f"hornproof:   {case.name} at {cells_per_wavelength:g} cells per wavelength")
+    return ProgressReporter(f"hornproof:   {case.name} at {cells_per_wavelength:.2f} cells per wavelength")
 
 
 def run_fdtd_ladder(case, ladder, *, force=False, log=say, progress=None):
@@ -66,7 +66,7 @@ def run_fdtd_ladder(case, ladder, *, force=False, log=say, progress=None):
         cells_per_wavelength = float(ladder[i])
         remaining = sum(relative_cost(ladder[j], dims) for j in order[step - 1:])
         eta = "" if rate is None else f", about {remaining / rate:.0f} s left for the ladder"
-        log(f"hornproof: FDTD grid {step}/{len(ladder)}: {cells_per_wavelength:g} cells per wavelength "
+        log(f"hornproof: FDTD grid {step}/{len(ladder)}: {cells_per_wavelength:.2f} cells per wavelength "
             f"({dims}D){eta}")
         log(f"hornproof:   {resource_line(case, cells_per_wavelength)}")
         started = time.monotonic()
@@ -94,7 +94,7 @@ def solver_warnings(sim_results, ladder):
     out = []
     for cells_per_wavelength, result in zip(ladder, sim_results):
         for warning in result.run.get("warnings", []) or []:
-            out.append(f"FDTD at {cells_per_wavelength:g} cells per wavelength: {warning}")
+            out.append(f"FDTD at {cells_per_wavelength:.2f} cells per wavelength: {warning}")
     return out
 
 

@@ -8,6 +8,7 @@ from ...sim import run as fdtd_run
 from ..output.folders import publish_folder
 from ..output.json_document import jsonable
 from ..output.summary import base_summary
+from .grid_plan import fitted_ladder
 from .ladder import fdtd_figures, progress_reporter, resource_line, solver_block, solver_warnings
 from .messages import is_writer, say
 from .result_folder import draw_model_image, move_model_image, write_result_files
@@ -21,9 +22,12 @@ def default_simulate_folder(case, cells_per_wavelength):
 def simulate_case(case, cells_per_wavelength, out_dir, *, force=False, image=False):
     """Run one FDTD model of ``case`` and write fields.h5, s11.s1p, result.json (and model.png).
 
-    Returns the ``hornproof.result/1`` summary with the ``fdtd`` model only.
+    The grid is fitted near ``cells_per_wavelength`` (:mod:`.grid_plan`) so that the model's
+    sizes match the horn's. Returns the ``hornproof.result/1`` summary with the ``fdtd`` model only.
     """
-    say(f"hornproof: FDTD {case.fdtd.dims}D model at {cells_per_wavelength:g} cells per wavelength")
+    (fit,) = fitted_ladder(case, [cells_per_wavelength])
+    cells_per_wavelength = fit.cells_per_wavelength
+    say(f"hornproof: FDTD {case.fdtd.dims}D model at {cells_per_wavelength:.2f} cells per wavelength")
     say(f"hornproof:   {resource_line(case, cells_per_wavelength)}")
     result = fdtd_run.simulate(case.horn, case.frequencies, case.fdtd, cells_per_wavelength, force=force,
                                progress=progress_reporter(case, cells_per_wavelength))
@@ -33,6 +37,8 @@ def simulate_case(case, cells_per_wavelength, out_dir, *, force=False, image=Fal
     fdtd["wall_thickness_modelled_mm"] = result.run.get("wall_thickness_modelled_m", np.nan) * 1e3
     summary["models"]["fdtd"] = fdtd
     summary["solver"] = solver_block(case, [result], [cells_per_wavelength], result.run.get("seconds_total"))
+    summary["solver"]["nominal_cells_per_wavelength"] = [fit.nominal_cells_per_wavelength]
+    summary["solver"]["grid_fit"] = [fit.to_dict()]
     summary["warnings"] = list(summary.get("warnings", [])) + solver_warnings([result], [cells_per_wavelength])
     for warning in result.run.get("warnings", []) or []:
         say(f"hornproof: warning: {warning}")

@@ -29,6 +29,7 @@ from ...atomic import write_text_atomic
 from ...errors import InputError
 from ...hashing import content_sha256
 from ...sim import run as fdtd_run
+from ...sim.grid_fit import fit_ladder
 from ...sim.solver import meep_version
 from ...version import build_version
 from ..numerics.convergence import grid_convergence
@@ -86,7 +87,11 @@ def point_key(horn, frequencies, settings, ladder):
 
 
 def run_point(horn, frequencies, settings, ladder, force):
-    """FDTD figures of one sweep point on every grid of ``ladder``, JSON-ready."""
+    """FDTD figures of one sweep point on every grid of ``ladder`` (each rung fitted to this
+    point's horn, :func:`hornproof.sim.grid_fit.fit_ladder`), JSON-ready."""
+    plane = None if int(settings.dims) == 3 else ("h" if horn.kind == "h-sectoral" else "e")
+    fits = fit_ladder(horn, float(np.max(frequencies)), int(settings.dims), list(ladder), plane=plane)
+    ladder = [fit.cells_per_wavelength for fit in fits]
     results = [fdtd_run.simulate(horn, frequencies, settings, float(c), force=force) for c in ladder]
     figures = [fdtd_figures(r) for r in results]
     key = directivity_key(settings.dims)
@@ -96,6 +101,8 @@ def run_point(horn, frequencies, settings, ladder, force):
              "hpbw_h_deg": figures[finest].get("hpbw_h_deg"), "hpbw_e_deg": figures[finest].get("hpbw_e_deg"),
              "power_balance_error": figures[finest].get("power_balance_error"),
              "seconds": [r.run.get("seconds_total") for r in results],
+             "cells_per_wavelength": ladder,
+             "worst_size_residual_percent": [100.0 * fit.worst_relative_residual for fit in fits],
              "wall_thickness_modelled_mm": results[finest].run.get("wall_thickness_modelled_m", np.nan) * 1e3}
     if len(ladder) > 1:
         found = grid_convergence(values, cells_per_wavelength=ladder, formal_order=1.0)

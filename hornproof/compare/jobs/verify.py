@@ -21,12 +21,20 @@ from ..numerics.verdict import comparison_block, verdict
 from ..output.folders import publish_folder
 from ..output.json_document import jsonable
 from .ladder import FORMAL_ORDER, fdtd_figures, ladder_convergence, run_fdtd_ladder, solver_block, solver_warnings
-from .messages import is_writer
+from .grid_plan import combine_uncertainty, fitted_ladder, geometry_residual
+from .messages import is_writer, say
 from .predict import predict_case
+from .refine import RefinementGoal, refine
 from .result_folder import draw_model_image, move_model_image, write_result_files
 
 #: main-lobe window of the pattern error, dB below the FDTD peak
 PATTERN_WINDOW_DB = -10.0
+
+
+def case_goal(case):
+    """The case's own refinement goal (``[fdtd] target_uncertainty_db``), or None."""
+    target = getattr(case.fdtd, "target_uncertainty_db", None)
+    return None if target is None else RefinementGoal(float(target))
 
 
 def default_out_dir(case):
@@ -119,14 +127,21 @@ def add_overall_verdict(comparison):
                              "agrees" if (comparison["metrics"] or comparison["extra_checks"]) else "no checks")
 
 
-def fdtd_model_block(case, sim_results, ladder):
+def fdtd_model_block(case, sim_results, ladder, geometry=None):
     """The ``models.fdtd`` block (finest grid, with per-figure uncertainty) and the ladder's
-    convergence (uncertainty, estimates, values; see :func:`.ladder.ladder_convergence`)."""
+    convergence (uncertainty, estimates, values; see :func:`.ladder.ladder_convergence`).
+
+    ``geometry`` ({figure: [nf]}, from :func:`.grid_plan.geometry_residual`) is combined with
+    each figure's grid-convergence uncertainty; both parts stay visible under
+    ``uncertainty_parts``."""
     nf = len(case.frequencies)
     level_figures = [fdtd_figures(r) for r in sim_results]
     finest = int(np.argmax(ladder))
     fdtd = dict(level_figures[finest])
     uncertainty, estimates, values = ladder_convergence(ladder, level_figures, nf)
+    geometry = geometry or {}
+    fdtd["uncertainty_parts"] = {"grid_convergence": dict(uncertainty), "geometry_residual": geometry}
+    uncertainty = {key: combine_uncertainty(values_u, geometry.get(key)) for key, values_u in uncertainty.items()}
     key = directivity_key(case.fdtd.dims)
     if key in uncertainty:
         # the schema's name for the directivity uncertainty (dB), beside the per-figure keys
@@ -157,7 +172,7 @@ def comparison(case, summary_models, models, sim_results, ladder, convergence):
     return block
 
 
-def verify_case(case, out_dir=None, *, force=False, ladder=None, progress=None):
+def verify_case(case, out_dir=None, *, force=False, ladder=None, progress=None, goal=None):
     """Run the main job on ``case`` and write its result folder.
 
     Parameters
@@ -172,6 +187,9 @@ def verify_case(case, out_dir=None, *, force=False, ladder=None, progress=None):
     progress : callable, optional
         Passed to every ``sim.run.simulate`` call (default: a ``ProgressReporter`` that prints
         on a terminal only).
+    goal : jobs.refine.RefinementGoal, optional
+        Add finer rungs until the checked figures are decided (default: the case's
+        ``fdtd.target_uncertainty_db``, if any; else the ladder as given).
 
     Returns
     -------
@@ -179,13 +197,28 @@ def verify_case(case, out_dir=None, *, force=False, ladder=None, progress=None):
         The ``hornproof.result/1`` summary (also written as ``result.json``).
     """
     started = time.monotonic()
-    ladder = [float(c) for c in (ladder or case.fdtd.cells_per_wavelength)]
+    fits = fitted_ladder(case, [float(c) for c in (ladder or case.fdtd.cells_per_wavelength)])
+    ladder = [fit.cells_per_wavelength for fit in fits]
     out_dir = Path(out_dir) if out_dir is not None else default_out_dir(case)
     summary, models = predict_case(case)
     sim_results = run_fdtd_ladder(case, ladder, force=force, progress=progress)
-    summary["models"]["fdtd"], convergence = fdtd_model_block(case, sim_results, ladder)
+    goal = goal or case_goal(case)
+    stop_reason = None
+    if goal is not None:
+        fits, sim_results, stop_reason = refine(
+            case, summary["models"], fits, sim_results, goal,
+            lambda rungs: run_fdtd_ladder(case, rungs, force=force, progress=progress), say)
+        say(f"hornproof: {stop_reason}")
+        ladder = [fit.cells_per_wavelength for fit in fits]
+    summary["models"]["fdtd"], convergence = fdtd_model_block(case, sim_results, ladder,
+                                                              geometry_residual(case, fits))
     summary["comparison"] = comparison(case, summary["models"], models, sim_results, ladder, convergence)
     summary["solver"] = solver_block(case, sim_results, ladder, time.monotonic() - started)
+    summary["solver"]["nominal_cells_per_wavelength"] = [fit.nominal_cells_per_wavelength for fit in fits]
+    summary["solver"]["grid_fit"] = [fit.to_dict() for fit in fits]
+    if goal is not None:
+        summary["solver"]["refinement"] = {"target_uncertainty_db": goal.target_db,
+                                           "budget_seconds": goal.budget_seconds, "stopped": stop_reason}
     summary["warnings"] = list(summary.get("warnings", [])) + solver_warnings(sim_results, ladder)
     summary = jsonable(summary)
     image = None
