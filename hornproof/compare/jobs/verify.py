@@ -17,6 +17,7 @@ import numpy as np
 from ..numerics.convergence import grid_convergence
 from ..numerics.figures import CHECK_METRICS, METRICS, directivity_key
 from ..numerics.metrics import interpolate_cut, pattern_error
+from ..numerics.power_balance import with_power_balance
 from ..numerics.verdict import comparison_block, verdict
 from ..output.folders import publish_folder
 from ..output.json_document import jsonable
@@ -127,6 +128,8 @@ def fdtd_model_block(case, sim_results, ladder):
     finest = int(np.argmax(ladder))
     fdtd = dict(level_figures[finest])
     uncertainty, estimates, values = ladder_convergence(ladder, level_figures, nf)
+    # the finest grid's power-balance error joins the ladder's uncertainty (numerics.power_balance)
+    uncertainty, fdtd["uncertainty_parts"] = with_power_balance(uncertainty, fdtd.get("power_balance_error"))
     key = directivity_key(case.fdtd.dims)
     if key in uncertainty:
         # the schema's name for the directivity uncertainty (dB), beside the per-figure keys

@@ -45,6 +45,16 @@ def test_gentle_long_horn_agrees_in_directivity(tmp_path):
         assert (out / name).is_file(), name
     stored = json.loads((out / "result.json").read_text())
     assert stored["schema"] == "hornproof.result/1"
+    # the uncertainty judged is the ladder's combined with the finest grid's power-balance term,
+    # u = √(u_ladder² + (10 log10(1 + |ε|))²) (hornproof's stated choice); the ladder's own stays
+    fdtd = stored["models"]["fdtd"]
+    parts = fdtd["uncertainty_parts"]
+    term = 10 * np.log10(1 + np.abs(fdtd["power_balance_error"]))
+    for key in ("directivity_2d_db", "gain_2d_db", "realized_gain_2d_db"):
+        np.testing.assert_allclose(fdtd["uncertainty"][key], np.hypot(parts["ladder"][key], term), rtol=1e-9)
+    np.testing.assert_allclose([r["fdtd_uncertainty"] for r in rows], fdtd["uncertainty"]["directivity_2d_db"])
+    assert fdtd["uncertainty"]["hpbw_h_deg"] == parts["ladder"]["hpbw_h_deg"]
+    assert all(r <= g <= d for r, g, d in zip(fdtd["realized_gain_2d_db"], fdtd["gain_2d_db"], fdtd["directivity_2d_db"]))
     nf = len(stored["frequencies_ghz"])
     for key, values in stored["models"]["fdtd"].items():
         if isinstance(values, list):
