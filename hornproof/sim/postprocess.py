@@ -10,6 +10,7 @@ from ..analytic.pattern_metrics import cut_metrics
 from ..errors import RunError
 from ..units import db10, db20
 from .feed import reflection_at_throat, vswr
+from .gain import PEC_RADIATION_EFFICIENCY, gain, power_balance_error, realized_gain
 from .layout import FAR_FIELD_DISTANCE
 from .pattern import cut_directions, directivity, polarisation_split, radiation_intensity, sphere_directions, sphere_power
 from .result import SimResult
@@ -106,12 +107,19 @@ def _pattern_theta(step_deg):
 
 
 def _extra_figures(powers, layout, d_boresight, h_cross, e_cross):
-    """The FDTD-only figures of the result (``ModelResult.extra``)."""
+    """The FDTD-only figures of the result (``ModelResult.extra``).
+
+    Gain and realized gain follow their definitions (:mod:`hornproof.sim.gain`) from the
+    directivity, the radiation efficiency (1: PEC walls, no wall loss modelled) and S11, so
+    G ≤ D and realized gain ≤ G by construction; the power-balance error is reported beside
+    them and never scales them (it is numerical error on a lossless model).
+    """
     p_inc, p_net, p_box = powers["incident"], powers["accepted"], powers["radiated"]
     s11 = powers["s11"]
+    g = gain(d_boresight, PEC_RADIATION_EFFICIENCY)
     return {
-        "gain_dbi": db10(d_boresight * p_box / p_net),
-        "realized_gain_dbi": db10(d_boresight * p_box / p_inc),
+        "gain_dbi": db10(g),
+        "realized_gain_dbi": db10(realized_gain(g, s11)),
         "s11_db": db20(s11),
         "s11_real": np.real(s11),
         "s11_imag": np.imag(s11),
@@ -120,7 +128,7 @@ def _extra_figures(powers, layout, d_boresight, h_cross, e_cross):
         "reflected_power": powers["reflected"],
         "accepted_power": p_net,
         "radiated_power": p_box,
-        "power_balance_error": (p_box - p_net) / p_net,
+        "power_balance_error": power_balance_error(p_box, p_inc, powers["reflected"]),
         "mode_power_error": (powers["mode"] - p_net) / p_net,
         "mode_fit_residual": powers["reflection"]["fit_residual"],
         "guide_beta_per_m": powers["reflection"]["beta"] / layout.unit_length,
@@ -157,7 +165,9 @@ def post_process(sim, layout, settings, frequencies, meep_frequencies, monitors)
         h_plane_dbi=h_cut, e_plane_dbi=e_cut, directivity_dbi=db10(d_boresight),
         hpbw_h_deg=hpbw_h, hpbw_e_deg=hpbw_e, first_null_h_deg=null_h, first_null_e_deg=null_e,
         sll_h_db=sll_h, sll_e_db=sll_e, extra=_extra_figures(powers, layout, d_boresight, h_cross, e_cross),
-        run={"power_units": "Meep units (relative); ratios are meaningful"},
+        run={"power_units": "Meep units (relative); ratios are meaningful",
+             "radiation_efficiency": PEC_RADIATION_EFFICIENCY,
+             "radiation_efficiency_note": "PEC walls, no wall loss modelled: gain = directivity"},
     )
     if settings.full_pattern_step_deg and layout.dims == 3:
         result.full_pattern = full_pattern(far_field, settings.full_pattern_step_deg, p_box)

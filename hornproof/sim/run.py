@@ -8,9 +8,10 @@ monitors of the same run, which stops once the DFT fields have settled
 Figures returned (per band frequency):
 
 * directivity D = 4π U / P_rad, P_rad the power through the closed near-to-far box;
-* gain G = 4π U / P_accepted with P_accepted = P_inc − P_refl, the net power the feed guide
-  carries towards the horn (G = D for PEC walls, up to the power-balance error);
-* realized gain 4π U / P_inc = G (1 − |S11|²);
+* gain G = e_rad D with the radiation efficiency e_rad = 1 (PEC walls, no wall loss modelled),
+  so G = D; realized gain G (1 − |S11|²) (IEEE Std 145-2013; :mod:`hornproof.sim.gain`);
+* the power balance, radiated vs P_inc − P_refl (the net power the feed guide carries towards
+  the horn): its relative error is a numerical-quality figure, not an efficiency;
 * S11 at the throat plane (z = 0) and VSWR;
 * co- and cross-polar principal-plane cuts (Ludwig's third definition, E along y).
 

@@ -44,11 +44,31 @@ def format_table(summary):
             f" {_fmt(closed_form['hpbw_e_deg'][i], 9, 1)} {_fmt(exact_phase['hpbw_e_deg'][i], 6, 1)}"
             f" {_fmt(closed_form['sll_h_db'][i], 8, 1)} {_fmt(closed_form['sll_e_db'][i], 8, 1)}")
     lines += ["", "  cf = closed form (quadratic phase, Fresnel integrals); ex = exact path length from the apex;",
-              "  diff = closed form minus exact phase (the phase-approximation error).",
-              safety_lines()]
+              "  diff = closed form minus exact phase (the phase-approximation error)."]
+    if two_d:
+        lines.append("  D2 = 2D, dB per unit length: the 2D directivity of the flared plane alone (not dBi).")
+    lines += horn_3d_lines(summary)
+    lines.append(safety_lines())
     for w in summary.get("warnings", []):
         lines.append(f"  warning: {w}")
     return "\n".join(lines)
+
+
+def horn_3d_lines(summary):
+    """The 3D horn's directivity (dBi) of a 2D case's ``horn_3d`` block, as table lines
+    (none for a 3D case)."""
+    block = summary.get("horn_3d")
+    if not block:
+        return []
+    closed_form, exact_phase = block["closed_form"], block["exact_phase"]
+    lines = ["", "  The 3D horn, dBi (closed-form and exact-phase aperture models), beside the 2D model "
+                 "(2D, dB per unit length):",
+             f"  {'f GHz':>7} {'D dBi cf':>10} {'D dBi ex':>10} {'diff dB':>8}"]
+    for i, frequency in enumerate(summary["frequencies_ghz"]):
+        closed, exact = closed_form["directivity_dbi"][i], exact_phase["directivity_dbi"][i]
+        difference = None if closed is None or exact is None else closed - exact
+        lines.append(f"  {frequency:7.3f} {_fmt(closed, 10)} {_fmt(exact, 10)} {_fmt(difference, 8)}")
+    return lines
 
 
 def setup_arguments(parser):

@@ -12,6 +12,7 @@ from ..report.format import MISSING_VALUE
 from ..output.folders import check_output_folder
 from ..output.terminal import emit_result, safety_lines
 from .arguments import add_fdtd_run_arguments
+from .predict import horn_3d_lines
 
 
 def setup_arguments(parser):
@@ -48,6 +49,7 @@ def format_verdicts(summary):
     for row in comparison.get("extra_checks", []):
         lines.append(f"  {row['check']:<24} {freqs[row['frequency_index']]:7.3f} {'':>8} {'':>8} "
                      f"{fmt(row['value'])} {fmt(row['uncertainty'], 6)} {'':>7} {abs(row['limit']):5.2f}  {row['verdict']}")
+    lines += horn_3d_lines(summary)  # a 2D case: the 3D horn's aperture models in dBi
     lines.append(f"  overall: {comparison['overall']}")
     if comparison.get("unresolved_checks"):
         lines.append("  unresolved: the numerical uncertainty exceeds the tolerance; use finer cells "

@@ -20,7 +20,8 @@ from ..output.json_document import jsonable
 from .messages import say
 
 #: FDTD figures whose ladder gets a convergence estimate
-LADDER_FIGURES = ("directivity_dbi", "directivity_2d_db", "gain_dbi", "realized_gain_dbi", "hpbw_h_deg",
+LADDER_FIGURES = ("directivity_dbi", "directivity_2d_db", "gain_dbi", "realized_gain_dbi", "gain_2d_db",
+                  "realized_gain_2d_db", "hpbw_h_deg",
                   "hpbw_e_deg", "first_null_h_deg", "first_null_e_deg", "sll_h_db", "sll_e_db", "s11_db")
 
 #: staircased PEC walls converge at about first order (observed in development runs of this

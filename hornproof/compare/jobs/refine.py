@@ -16,6 +16,7 @@ from ...sim.estimate import available_memory_bytes, estimate_for_layout
 from ...sim.grid_fit import DEFAULT_RATIO, MIN_RATIO, fit_grid
 from ...sim.layout import plan_layout
 from ..numerics.figures import METRICS
+from ..numerics.power_balance import with_power_balance
 from ..numerics.verdict import verdict
 from .grid_plan import combine_uncertainty, flared_plane, geometry_residual
 from .ladder import fdtd_figures, ladder_convergence, relative_cost
@@ -37,6 +38,7 @@ def open_figures(case, summary_models, sim_results, fits, tolerances, target_db)
     uncertainty, _, _ = ladder_convergence(ladder, [fdtd_figures(r) for r in sim_results], nf)
     geometry = geometry_residual(case, fits)
     finest = fdtd_figures(sim_results[int(np.argmax(ladder))])
+    uncertainty, _ = with_power_balance(uncertainty, finest.get("power_balance_error"))
     model = summary_models[case.check_model]
     still_open = []
     for metric, tolerance in tolerances.items():

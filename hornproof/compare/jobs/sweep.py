@@ -3,7 +3,9 @@
 For every value of the case's ``[sweep]`` the closed-form and exact-phase models are evaluated
 and (unless ``--analytic-only``) the FDTD model is run — the 2D model for sectoral horns by
 default — on three grids (``GRID_RATIOS`` × the sweep's cells per wavelength) whose grid
-convergence index is the uncertainty of each point; ``--cells-per-wavelength`` sets the grids
+convergence index, combined by root-sum-square with the finest grid's power-balance term
+(:mod:`..numerics.power_balance`), is the uncertainty of each point (the index alone:
+``uncertainty_ladder``); ``--cells-per-wavelength`` sets the grids
 (two grids: GCI with safety factor 3 at an assumed first order; one grid: no uncertainty). The errors are split as in ``verify``:
 
 * phase-approximation error = closed form − exact phase (no numerical uncertainty: both are
@@ -40,6 +42,7 @@ from ..case.sweepspec import PARAMETER_LABELS
 from ..output.json_document import jsonable
 from ..output.summary import SAFETY_NOTE
 from ..output.sweep_json import SWEEP_SCHEMA, write_sweep_json
+from ..numerics.power_balance import power_balance_uncertainty_db, root_sum_square
 from .ladder import fdtd_figures
 from .messages import is_writer, say
 
@@ -106,7 +109,10 @@ def run_point(horn, frequencies, settings, ladder, force):
              "wall_thickness_modelled_mm": results[finest].run.get("wall_thickness_modelled_m", np.nan) * 1e3}
     if len(ladder) > 1:
         found = grid_convergence(values, cells_per_wavelength=ladder, formal_order=1.0)
-        point["uncertainty"] = [e.uncertainty for e in found]
+        point["uncertainty_ladder"] = [e.uncertainty for e in found]
+        # with the finest grid's power-balance term, as in verify (numerics.power_balance)
+        point["uncertainty"] = root_sum_square(point["uncertainty_ladder"],
+                                               power_balance_uncertainty_db(point["power_balance_error"])).tolist()
         point["convergence_status"] = [e.status for e in found]
     else:
         point["uncertainty"] = [np.nan] * values.shape[1]

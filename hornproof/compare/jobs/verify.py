@@ -17,6 +17,7 @@ import numpy as np
 from ..numerics.convergence import grid_convergence
 from ..numerics.figures import CHECK_METRICS, METRICS, directivity_key
 from ..numerics.metrics import interpolate_cut, pattern_error
+from ..numerics.power_balance import with_power_balance
 from ..numerics.verdict import comparison_block, verdict
 from ..output.folders import publish_folder
 from ..output.json_document import jsonable
@@ -139,9 +140,13 @@ def fdtd_model_block(case, sim_results, ladder, geometry=None):
     finest = int(np.argmax(ladder))
     fdtd = dict(level_figures[finest])
     uncertainty, estimates, values = ladder_convergence(ladder, level_figures, nf)
+    # the finest grid's power-balance error (numerics.power_balance) and the grid fit's size
+    # residual (grid_plan.geometry_residual) join the ladder's uncertainty, root-sum-square
+    uncertainty, fdtd["uncertainty_parts"] = with_power_balance(uncertainty, fdtd.get("power_balance_error"))
     geometry = geometry or {}
-    fdtd["uncertainty_parts"] = {"grid_convergence": dict(uncertainty), "geometry_residual": geometry}
-    uncertainty = {key: combine_uncertainty(values_u, geometry.get(key)) for key, values_u in uncertainty.items()}
+    fdtd["uncertainty_parts"]["geometry_residual"] = geometry
+    fdtd["uncertainty_parts"]["combination"] += "; then root-sum-square with the geometry residual of the fitted grid"
+    uncertainty = {key: combine_uncertainty(values, geometry.get(key)) for key, values in uncertainty.items()}
     key = directivity_key(case.fdtd.dims)
     if key in uncertainty:
         # the schema's name for the directivity uncertainty (dB), beside the per-figure keys

@@ -108,6 +108,28 @@ def pattern_error_rows(result):
     return rows
 
 
+def horn_3d_rows(result):
+    """A 2D case's directivity per frequency: the 2D model's (dB per unit length: closed form,
+    exact phase, FDTD) beside the 3D horn's aperture models (dBi, ``result.json``'s ``horn_3d``
+    block). Empty for a 3D case."""
+    block = result.get("horn_3d") or {}
+    if not block:
+        return []
+    models = result.get("models") or {}
+
+    def value(model, key, i):
+        values = (model or {}).get(key) or []
+        return number(values[i] if i < len(values) else None, 2)
+
+    return [{"frequency": number(f_ghz),
+             "closed_form_2d": value(models.get("closed_form"), "directivity_2d_db", i),
+             "exact_phase_2d": value(models.get("exact_phase"), "directivity_2d_db", i),
+             "fdtd_2d": value(models.get("fdtd"), "directivity_2d_db", i),
+             "closed_form_3d": value(block.get("closed_form"), "directivity_dbi", i),
+             "exact_phase_3d": value(block.get("exact_phase"), "directivity_dbi", i)}
+            for i, f_ghz in enumerate(result.get("frequencies_ghz") or [])]
+
+
 def centre_index(f_ghz):
     """Index of the band frequency closest to the geometric band centre (where the pattern and
     ladder figures are drawn)."""
@@ -161,6 +183,7 @@ def verify_context(result):
         "verdict_rows": verdict_rows(comparison), "missing": MISSING_VALUE,
         "extra_checks": extra_check_rows(result), "pattern_error_rows": pattern_error_rows(result),
         "pattern_window": number(block.get("window_db"), 1),
+        "horn_3d_rows": horn_3d_rows(result),
         "warnings": [str(w) for w in result.get("warnings") or []],
         "geometry": quantity_rows(result.get("geometry") or {}),
         "solver": quantity_rows(result.get("solver") or {}),

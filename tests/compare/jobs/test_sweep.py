@@ -18,7 +18,9 @@ import numpy as np
 import pytest
 
 from hornproof.compare.case.casefile import load_case
-from hornproof.compare.jobs.sweep import point_key, run_sweep, sweep_grids
+from hornproof.analytic.geometry import HornGeometry
+from hornproof.compare.jobs.sweep import point_key, run_point, run_sweep, sweep_grids
+from hornproof.sim.settings import FdtdSettings
 
 ROOT = Path(__file__).resolve().parents[3]
 
@@ -134,3 +136,13 @@ def test_point_key_names_the_point_by_its_content(tmp_path):
     assert point_key(first, case.frequencies, settings, ladder) == key
     assert point_key(second, case.frequencies, settings, ladder) != key
     assert point_key(first, case.frequencies, settings, ladder[:2]) != key
+
+
+@pytest.mark.fullwave
+def test_point_uncertainty_adds_the_power_balance_term():
+    horn = HornGeometry("h-sectoral", 22.86e-3, 10.16e-3, 60e-3, 10.16e-3, 60e-3, 1e-3)
+    point = run_point(horn, np.array([10e9]), FdtdSettings(dims=2, pattern_step_deg=2.0), [10, 12], force=False)
+    # u = √(u_ladder² + (10 log10(1 + |ε|))²), hornproof's stated choice (numerics/power_balance.py)
+    term = 10 * np.log10(1 + abs(point["power_balance_error"][0]))
+    assert point["uncertainty"][0] == pytest.approx(np.hypot(point["uncertainty_ladder"][0], term), rel=1e-12)
+    assert point["uncertainty"][0] > point["uncertainty_ladder"][0]

@@ -45,6 +45,22 @@ def test_gentle_long_horn_agrees_in_directivity(tmp_path):
         assert (out / name).is_file(), name
     stored = json.loads((out / "result.json").read_text())
     assert stored["schema"] == "hornproof.result/1"
+    # the uncertainty judged is the ladder's combined with the finest grid's power-balance term
+    # and the fitted grid's size residual, u = √(u_ladder² + (10 log10(1 + |ε|))² + u_geometry²)
+    # (hornproof's stated choice); the parts stay visible
+    fdtd = stored["models"]["fdtd"]
+    parts = fdtd["uncertainty_parts"]
+    term = 10 * np.log10(1 + np.abs(fdtd["power_balance_error"]))
+    geometry = parts["geometry_residual"]
+    for key in ("directivity_2d_db", "gain_2d_db", "realized_gain_2d_db"):
+        expected = np.hypot(np.hypot(parts["ladder"][key], term), geometry[key])
+        np.testing.assert_allclose(fdtd["uncertainty"][key], expected, rtol=1e-9)
+    np.testing.assert_allclose([r["fdtd_uncertainty"] for r in rows], fdtd["uncertainty"]["directivity_2d_db"])
+    np.testing.assert_allclose(fdtd["uncertainty"]["hpbw_h_deg"],
+                               np.hypot(parts["ladder"]["hpbw_h_deg"], geometry["hpbw_h_deg"]), rtol=1e-9)
+    # the grid fit keeps every rung's sizes within 2 % of the horn's (hornproof's measured rule)
+    assert all(fit["worst_residual_percent"] <= 2.0 for fit in stored["solver"]["grid_fit"])
+    assert all(r <= g <= d for r, g, d in zip(fdtd["realized_gain_2d_db"], fdtd["gain_2d_db"], fdtd["directivity_2d_db"]))
     nf = len(stored["frequencies_ghz"])
     for key, values in stored["models"]["fdtd"].items():
         if isinstance(values, list):
