@@ -9,9 +9,10 @@ different horn on every rung (b = 11.24 / 8.99 / 10.71 mm for a 10.16 mm WR-90 w
 a grid-convergence index over such a ladder measures the rounding, not the discretisation.
 
 Instead, the cell size of each rung is a free choice near the nominal one: :func:`fit_grid`
-scans cells per wavelength within ``±FIT_WINDOW`` of the nominal value and keeps the one whose
-worst relative size residual |modelled − nominal| / nominal over the horn's defining sizes is
-smallest. :func:`fit_ladder` fits the rungs coarse to fine, each at least ``MIN_RATIO`` finer
+scans cells per wavelength near the nominal value: the best fit (smallest worst relative size
+residual |modelled − nominal| / nominal over the horn's defining sizes) within ``±NEAR_WINDOW``
+if it meets ``RESIDUAL_GOAL``; otherwise, within ``±FIT_WINDOW``, the candidate nearest the
+nominal value among those within ``RESIDUAL_GOAL`` (or tied at the smallest residual found). :func:`fit_ladder` fits the rungs coarse to fine, each at least ``MIN_RATIO`` finer
 than the one before, so the refinement ratio stays usable for Richardson extrapolation (Celik et
 al. 2008 recommend a ratio above 1.3). The wall thickness is not fitted: it is at least two
 cells (a thinner PEC wall lets fields through) and reported as modelled.
@@ -36,10 +37,16 @@ from ..units import MM, SPEED_OF_LIGHT
 
 #: a rung's cells per wavelength may differ from the nominal value by this fraction
 FIT_WINDOW = 0.15
-#: candidate cell sizes scanned in the window
+#: the best fit within this fraction of the nominal value is taken when it meets RESIDUAL_GOAL
+NEAR_WINDOW = 0.05
+#: candidate cell sizes scanned in a window
 FIT_SAMPLES = 1201
-#: smallest ratio of cells per wavelength between consecutive fitted rungs
-MIN_RATIO = 1.25
+#: smallest ratio of cells per wavelength between consecutive fitted rungs (Celik et al. ask for
+#: more than 1.3 between *nominal* rungs; fitting may bring two rungs to 1.2, hornproof's limit)
+MIN_RATIO = 1.2
+#: a fit whose worst size residual is within this is good enough: among such candidates the
+#: one nearest the nominal cells per wavelength wins (cheaper than chasing a smaller residual)
+RESIDUAL_GOAL = 0.01
 #: default ladder: cells across the narrowest modelled opening on the coarsest rung, the ratio
 #: between rungs and the number of rungs (hornproof's rule; a few cells across the smallest
 #: feature is common FDTD practice, Celik et al. ask for ratios above 1.3 and three grids)
@@ -127,6 +134,13 @@ def _worst_residual(sizes, cells_per_wavelength, unit):
     return worst
 
 
+def _candidates(nominal, half_width, lowest):
+    low = nominal * (1.0 - half_width)
+    if lowest is not None:
+        low = max(low, float(lowest))
+    return np.linspace(low, max(nominal * (1.0 + half_width), low), FIT_SAMPLES)
+
+
 def fit_grid(horn, f_max, dims, nominal_cells_per_wavelength, *, plane=None, lowest=None, window=FIT_WINDOW):
     """The rung near ``nominal_cells_per_wavelength`` that models ``horn`` most closely.
 
@@ -147,21 +161,25 @@ def fit_grid(horn, f_max, dims, nominal_cells_per_wavelength, *, plane=None, low
     Returns
     -------
     GridFit
-        Ties in the worst residual go to the value nearest the nominal one.
+        See the module docstring for the rule.
     """
     nominal = float(nominal_cells_per_wavelength)
     if not np.isfinite(nominal) or nominal <= 0:
         raise ValueError(f"nominal_cells_per_wavelength must be positive, got {nominal_cells_per_wavelength!r}")
     unit = SPEED_OF_LIGHT / float(f_max)
-    low = nominal * (1.0 - window)
-    if lowest is not None:
-        low = max(low, float(lowest))
-    high = max(nominal * (1.0 + window), low)
-    candidates = np.linspace(low, high, FIT_SAMPLES)
     sizes = defining_sizes(horn, dims, plane)
-    worst = np.round(_worst_residual(sizes, candidates, unit), 6)  # ties within 1e-6 are equal
-    best = np.flatnonzero(worst == worst.min())
-    chosen = float(candidates[best[np.argmin(np.abs(candidates[best] - nominal))]])
+    chosen = None
+    for half_width in (NEAR_WINDOW, window):
+        candidates = _candidates(nominal, half_width, lowest)
+        worst = np.round(_worst_residual(sizes, candidates, unit), 6)  # ties within 1e-6 are equal
+        if half_width == NEAR_WINDOW and worst.min() <= RESIDUAL_GOAL:
+            best = np.flatnonzero(worst == worst.min())  # near the nominal value: the best fit
+        elif half_width == NEAR_WINDOW:
+            continue
+        else:
+            best = np.flatnonzero(worst <= max(RESIDUAL_GOAL, worst.min()))  # good enough, nearest
+        chosen = float(candidates[best[np.argmin(np.abs(candidates[best] - nominal))]])
+        break
     cell = unit / chosen
     fitted = tuple(FittedSize(name, float(length), float(whole_cells(length, cell, kind) * cell),
                               int(whole_cells(length, cell, kind)))

@@ -135,7 +135,8 @@ points = 3
 
 [fdtd]
 dims = 3
-cells_per_wavelength = [10, 14, 20]
+# no cells_per_wavelength: verify picks the ladder (six cells across the narrowest opening on
+# the coarsest rung, ratio 1.3, each rung fitted to these sizes)
 
 [checks]
 directivity_db = 0.5

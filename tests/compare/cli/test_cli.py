@@ -100,6 +100,13 @@ def test_design_writes_a_case_that_loads(tmp_path, capsys):
 
     d = predict(case.horn, [10e9])["closed_form"].directivity_dbi[0]
     assert d == pytest.approx(20.0, abs=0.01)
+    # the written case's ladder is the one verify picks: at least six cells across the guide
+    # height b on the coarsest rung (the reviewer saw 3.6 cells with the old fixed 10/14/20)
+    from hornproof.units import SPEED_OF_LIGHT
+
+    wavelength = SPEED_OF_LIGHT / max(case.frequencies)
+    assert min(case.fdtd.cells_per_wavelength) * case.horn.guide_b / wavelength >= 5.99
+    assert len(case.fdtd.cells_per_wavelength) == 3
     # a second write refuses to overwrite (never lose data)
     assert main(["design", "gain", "--gain-dbi", "20", "--frequency-ghz", "10", "--waveguide", "WR-90",
                  "--write-case", str(target)]) == 2
