@@ -6,7 +6,7 @@ only their ratios are used. Meep is imported inside the functions that read its 
 
 import numpy as np
 
-from ..analytic.pattern_metrics import cut_metrics
+from ..analytic.pattern_metrics import cut_metrics, plane_features
 from ..errors import RunError
 from ..units import db10, db20
 from .feed import reflection_at_throat, vswr
@@ -159,6 +159,7 @@ def post_process(sim, layout, settings, frequencies, meep_frequencies, monitors)
         sll_h_db=sll_h, sll_e_db=sll_e, extra=_extra_figures(powers, layout, d_boresight, h_cross, e_cross),
         run={"power_units": "Meep units (relative); ratios are meaningful"},
     )
+    result.extra.update(plane_features(theta, h_cut, e_cut))  # main-lobe edge flags, sidelobe angles
     if settings.full_pattern_step_deg and layout.dims == 3:
         result.full_pattern = full_pattern(far_field, settings.full_pattern_step_deg, p_box)
         result.extra["sphere_power_ratio"] = result.full_pattern["sphere_power_ratio"]

@@ -146,7 +146,8 @@ def test_vectorised_over_frequency_and_unsorted_input():
 def test_all_nan_cut_and_bad_input():
     theta = np.linspace(-90, 90, 181)
     m = cut_metrics(theta, np.full((2, 181), np.nan))
-    assert all(np.all(np.isnan(v)) for v in m.values())
+    assert all(np.all(np.isnan(m[key])) for key in METRIC_KEYS)
+    assert m["main_lobe_edge"].tolist() == [None, None]  # no cut, no feature (not "none within ±90°")
     with pytest.raises(ValueError, match="pattern_db"):
         cut_metrics(theta, np.zeros(180))
     with pytest.raises(ValueError, match="sidelobe"):
