@@ -99,6 +99,14 @@ NULL_PROMINENCE_DB = 3.0
 #: measured-like data need a larger value (``ripple_db``) or smoothing.
 RIPPLE_DB = 0.25
 
+#: a stretch of this fraction of the half-power beamwidth over which the pattern falls by less
+#: than ``RIPPLE_DB``, followed by a further fall of at least ``NULL_PROMINENCE_DB``, is a
+#: shoulder without a dip (a filled null that leaves a plateau). A quarter beamwidth is about a
+#: quarter of the spacing of an aperture's lobes (λ/L in sin θ against a half-power width of
+#: 0.89–1.19 λ/L, Silver 1949, Table 6.1): a main-lobe flank or a null's approach falls by
+#: several dB over it. hornproof's choice.
+PLATEAU_FRACTION = 0.25
+
 #: half power in dB, −10 log10 2 ≈ −3.0103 dB
 HALF_POWER_DB = -10.0 * np.log10(2.0)
 
@@ -233,10 +241,38 @@ def _lobe_maximum(theta, p, hills, first, last):
     return int(inside[np.argmax(p[inside])])
 
 
-def _side(theta, p, start, step, valleys, prominence, hills, window_end, null_prominence_db, sidelobe):
-    """Main-lobe edge and first sidelobe on one side: (kind, edge index, lobe index or None)."""
+def _plateau(theta, p, start, stop, step, width_deg, ripple_db, null_prominence_db):
+    """A shoulder without a dip between sample indices start and stop (exclusive), walking by
+    step: the first sample from which the pattern falls by less than ``ripple_db`` over
+    ``width_deg`` and afterwards, before ``stop``, by at least ``null_prominence_db``. Returns
+    the index of the flattest sample of that stretch (least |dp/dθ|), or None."""
+    indices = list(range(start, stop, step))
+    for n, j in enumerate(indices):
+        span = [k for k in indices[n + 1:] if abs(theta[k] - theta[j]) >= width_deg]
+        if not span:
+            return None
+        k = span[0]
+        if p[j] - p[k] >= ripple_db:
+            continue
+        rest = [m for m in indices[n + 1:]]
+        if not rest or p[j] - np.min(p[rest]) < null_prominence_db:
+            return None
+        flat = [m for m in indices[n:] if 0 < m < len(p) - 1 and (theta[m] - theta[k]) * step <= 0]
+        slope = [abs((p[m + 1] - p[m - 1]) / (theta[m + 1] - theta[m - 1])) for m in flat]
+        return flat[int(np.argmin(slope))] if flat else j
+    return None
+
+
+def _side(theta, p, start, step, valleys, prominence, hills, window_end, null_prominence_db, ripple_db,
+          plateau_deg, sidelobe):
+    """Main-lobe edge and first sidelobe on one side: (kind, edge index or None, lobe index or None)."""
     ahead = valleys[valleys >= start] if step > 0 else valleys[valleys <= start][::-1]
     ahead = ahead[(ahead - window_end) * step <= 0]
+    stop = int(ahead[0]) if ahead.size else window_end + step
+    if np.isfinite(plateau_deg):
+        flat = _plateau(theta, p, start, stop, step, plateau_deg, ripple_db, null_prominence_db)
+        if flat is not None:
+            return "shoulder", None, flat
     if ahead.size == 0:
         return "none", None, None
     edge = int(ahead[0])
@@ -289,12 +325,12 @@ def _one_cut(theta, p, max_angle_deg, null_prominence_db, ripple_db, sidelobe, p
         if start is None:
             continue
         kind, edge, lobe = _side(theta, p, start, step, valleys, prominence, hills, window_end,
-                                 null_prominence_db, sidelobe)
+                                 null_prominence_db, ripple_db, out["hpbw_deg"] * PLATEAU_FRACTION, sidelobe)
         kinds[name] = kind
         if kind == "null":
             out[f"first_null_{name}_deg"] = _refine_min_linear(theta, p, edge)
         if lobe is not None:
-            lobe_deg, lobe_db = _refine_max_db(theta, p, lobe)
+            lobe_deg, lobe_db = _refine_max_db(theta, p, lobe) if lobe in hills else (theta[lobe], p[lobe])
             out[f"sll_{name}_db"] = lobe_db - peak_db
             out[f"first_sidelobe_{name}_deg"] = lobe_deg
     found_kinds = set(kinds.values())

@@ -287,3 +287,42 @@ def test_same_sidelobe_feature():
     assert not same_sidelobe_feature("shoulder", 20.0, "null", 20.0, 10.0)
     assert same_sidelobe_feature("none within ±90°", np.nan, "none within ±90°", np.nan, 10.0)
     assert not same_sidelobe_feature(None, np.nan, "null", 20.0, 10.0)
+
+
+def test_shelf_without_a_dip_is_a_shoulder():
+    # a Gaussian beam (σ = 3°, HPBW 2.355 σ = 7.1°) on a −20 dB shelf that ends at 20°: the
+    # pattern never rises again (no local minimum at all), yet it flattens at −20 dB from
+    # about 12° to 18° and then falls: a shoulder, read on the shelf, not "no feature"
+    theta = np.arange(-90, 90.01, 0.5)
+    shelf = 0.01 / (1 + np.exp((np.abs(theta) - 20.0) / 1.0))
+    power = np.exp(-theta**2 / (2 * 3.0**2)) + shelf
+    p = 10 * np.log10(power)
+    assert np.all(np.diff(p[theta >= 0]) < 0)  # monotonic: no dip anywhere on the right
+    m = cut_metrics(theta, p)
+    assert m["main_lobe_edge"] == "shoulder"
+    assert np.isnan(m["first_null_deg"])
+    assert 12.0 <= m["first_sidelobe_deg"] <= 19.0
+    # the shelf level relative to the peak: 10 log10(0.01/1.01) = −20.04 dB; the shelf's own
+    # slope and the Gaussian's tail move the flattest point by < 0.3 dB (tolerance)
+    assert m["sll_db"] == pytest.approx(10 * np.log10(0.01 / 1.01), abs=0.3)
+
+
+def test_shipped_long_h_plane_horn_plateau_is_its_first_sidelobe():
+    # cases/gentle-long.toml (95 mm H-plane sectoral horn, 240 mm long) at 10.5 GHz, 2D closed
+    # form: the cut flattens to about −21 dB from 28° to 34° with no dip of 0.25 dB, then
+    # falls to a null near 50°. A "first null" at 49° with its −32 dB sidelobe named a lobe
+    # the pattern does not show at the first-lobe position.
+    from hornproof.analytic.geometry import HornGeometry
+    from hornproof.analytic.predict import predict
+
+    horn = HornGeometry("h-sectoral", 0.02286, 0.01016, 0.095, 0.01016, 0.240)
+    model = predict(horn, [10.5e9], dims=2)["closed_form"]
+    theta, cut = model.theta_deg, model.h_plane_dbi[0]
+    m = cut_metrics(theta, cut)
+    assert m["main_lobe_edge"] == "shoulder"
+    angle, level = m["first_sidelobe_deg"], m["sll_db"]
+    assert level == pytest.approx(level_at_angle(theta, cut, angle) - m["peak_db"], abs=0.01)
+    near = (theta >= angle - 3) & (theta <= angle + 3)
+    assert np.ptp(cut[near]) < 1.0  # a plateau: within 1 dB over ±3°
+    far = (theta >= 40) & (theta <= 60)
+    assert np.min(cut[far]) - m["peak_db"] < level - 10  # the far-off dip is another feature
