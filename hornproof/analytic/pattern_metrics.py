@@ -40,9 +40,13 @@ Definitions (per cut and side, walking outward from the peak):
   (the maximum reached on each side before the pattern falls below the dip again, as in
   ``scipy.signal.find_peaks``) — is at least ``null_prominence_db`` (default
   ``NULL_PROMINENCE_DB`` = 3 dB); otherwise it is a **shoulder**: the dip does not separate
-  two lobes, the main lobe and the next merge, and no null bounds the main lobe there. If no
-  dip at all lies within ``max_angle_deg``, the edge is **none within ±90°** (the angle
-  written is ``max_angle_deg``).
+  two lobes, the main lobe and the next merge, and no null bounds the main lobe there. A
+  filled null can also leave no dip at all, only a plateau: where, before the first dip, the
+  pattern falls by less than ``ripple_db`` over a quarter of the half-power beamwidth
+  (``PLATEAU_FRACTION``) and then falls again by at least ``null_prominence_db``, the edge is a
+  shoulder too, read at the flattest sample of the plateau. If neither a dip nor a plateau lies
+  within ``max_angle_deg``, the edge is **none within ±90°** (with the actual
+  ``max_angle_deg``).
 * **First null** (``first_null_deg``): the angle of a main-lobe edge that is a null, refined
   from the nearby samples: a parabola in *linear power* for a shallow (filled) null, the root of
   the signed amplitude for a deep one (see ``_refine_min_linear``). ``first_null_deg`` is the
@@ -53,7 +57,8 @@ Definitions (per cut and side, walking outward from the peak):
 * **First sidelobe** (``first_sidelobe_deg``, ``sll_db``): beyond a null, the largest local
   maximum of the next lobe outward — the samples up to the next null (next dip of at least
   ``null_prominence_db``) or ``max_angle_deg``; beyond a shoulder, the largest local maximum
-  before the next dip (the bump that makes the shoulder). Refined by a parabola in dB.
+  before the next dip (the bump that makes the shoulder), or the plateau's flattest sample.
+  A maximum is refined by a parabola in dB.
   ``sll_db`` (dB relative to the peak, ≤ 0) is the higher of the two sides whose edge is of
   the cut's kind, ``first_sidelobe_deg`` its distance from the peak; per side
   ``sll_left_db`` / ``sll_right_db`` and signed ``first_sidelobe_left_deg`` /
@@ -254,8 +259,8 @@ def _plateau(theta, p, start, stop, step, width_deg, ripple_db, null_prominence_
         k = span[0]
         if p[j] - p[k] >= ripple_db:
             continue
-        rest = [m for m in indices[n + 1:]]
-        if not rest or p[j] - np.min(p[rest]) < null_prominence_db:
+        rest = indices[n + 1:]
+        if p[j] - np.min(p[rest]) < null_prominence_db:
             return None
         flat = [m for m in indices[n:] if 0 < m < len(p) - 1 and (theta[m] - theta[k]) * step <= 0]
         slope = [abs((p[m + 1] - p[m - 1]) / (theta[m + 1] - theta[m - 1])) for m in flat]
