@@ -86,6 +86,10 @@ def matched_sidelobes(models, sim_results, ladder, model_checked, formal_order):
                                                 mm["main_lobe_edge"][i], mm["first_sidelobe_deg"][i],
                                                 mm["hpbw_deg"][i])]
         for i in range(nf):
+            if fm["main_lobe_edge"][i] in ("null", "shoulder") and mm["main_lobe_edge"][i] not in ("null", "shoulder"):
+                out["notes"].setdefault(sll_metric, {})[i] = (
+                    f"sidelobe not compared: FDTD has {_describe(fm['main_lobe_edge'][i], fm['first_sidelobe_deg'][i])}, "
+                    f"{model_checked} {_describe(mm['main_lobe_edge'][i], np.nan)}")
             if fm["main_lobe_edge"][i] != mm["main_lobe_edge"][i]:
                 out["notes"].setdefault(null_metric, {})[i] = (
                     f"first null not compared: FDTD has {_describe(fm['main_lobe_edge'][i], np.nan)}, "

@@ -86,3 +86,14 @@ def test_sidelobes_of_different_lobes_are_matched_by_angle():
     assert set(matched["values"]) == {"sll_h_db", "sll_e_db"}
     assert np.isnan(matched["uncertainty"]["sll_h_db"][0])  # one grid: no uncertainty, unresolved
     assert "first_null_h_deg" not in matched["notes"]  # both nulls: compared as they are
+
+
+def test_a_sidelobe_the_model_does_not_have_is_not_compared_and_says_so():
+    # model: a single Gaussian lobe (no dip, no shelf: "none within ±90°"); FDTD: sinc² (null)
+    gaussian = 10 * np.log10(np.exp(-THETA**2 / (2 * 3.0**2)) + 1e-12)
+    model = _model(gaussian)
+    matched = matched_sidelobes({"closed_form": model}, [_grid(_sinc2(0.0), _sinc2(0.0))], [20.0],
+                                "closed_form", 1.0)
+    assert matched["values"] == {}  # nothing to read the FDTD at
+    assert "sidelobe not compared" in matched["notes"]["sll_h_db"][0]
+    assert "first null not compared" in matched["notes"]["first_null_e_deg"][1]
