@@ -11,7 +11,7 @@ from . import closed_form
 from . import exact_phase
 from .line_source import check_equivalent, check_frequency, flared_line_source
 from .model_result import ModelResult
-from .pattern_metrics import cut_metrics
+from .pattern_metrics import cut_metrics, plane_features
 
 __all__ = ["predict", "DEFAULT_THETA_DEG"]
 
@@ -28,7 +28,7 @@ def _result(name, dims, f, theta, h_cut, e_cut, directivity, extra, attributes):
         hpbw_h_deg=mh["hpbw_deg"], hpbw_e_deg=me["hpbw_deg"],
         first_null_h_deg=mh["first_null_deg"], first_null_e_deg=me["first_null_deg"],
         sll_h_db=mh["sll_db"], sll_e_db=me["sll_db"],
-        extra=extra, attributes=attributes,
+        extra={**extra, **plane_features(theta, h_db, e_db)}, attributes=attributes,
     )
 
 

@@ -6,7 +6,7 @@ only their ratios are used. Meep is imported inside the functions that read its 
 
 import numpy as np
 
-from ..analytic.pattern_metrics import cut_metrics
+from ..analytic.pattern_metrics import cut_metrics, plane_features
 from ..errors import RunError
 from ..units import db10, db20
 from .feed import reflection_at_throat, vswr
@@ -169,6 +169,7 @@ def post_process(sim, layout, settings, frequencies, meep_frequencies, monitors)
              "radiation_efficiency": PEC_RADIATION_EFFICIENCY,
              "radiation_efficiency_note": "PEC walls, no wall loss modelled: gain = directivity"},
     )
+    result.extra.update(plane_features(theta, h_cut, e_cut))  # main-lobe edge flags, sidelobe angles
     if settings.full_pattern_step_deg and layout.dims == 3:
         result.full_pattern = full_pattern(far_field, settings.full_pattern_step_deg, p_box)
         result.extra["sphere_power_ratio"] = result.full_pattern["sphere_power_ratio"]

@@ -27,6 +27,7 @@ from .messages import is_writer, say
 from .predict import predict_case
 from .refine import RefinementGoal, refine
 from .result_folder import draw_model_image, move_model_image, write_result_files
+from .sidelobe_match import add_feature_notes, matched_sidelobes
 
 #: main-lobe window of the pattern error, dB below the FDTD peak
 PATTERN_WINDOW_DB = -10.0
@@ -166,10 +167,20 @@ def comparison(case, summary_models, models, sim_results, ladder, convergence):
     tolerances = check_tolerances(case, fdtd, dims)
     metric_uncertainty = {metric: [np.nan if v is None else v for v in uncertainty.get(METRICS[metric].key, [None] * nf)]
                           for metric in tolerances}
+    # like with like: where FDTD and the checked model name different first sidelobes, FDTD is
+    # read at the model's sidelobe angle (sidelobe_match; the rows say so)
+    matched = matched_sidelobes(models, sim_results, ladder, case.check_model, FORMAL_ORDER)
+    compared = {**summary_models, "fdtd": dict(fdtd)}
+    for metric, rows in matched["values"].items():
+        if metric in tolerances:
+            compared["fdtd"][metric] = [rows.get(i, value) for i, value in enumerate(fdtd[metric])]
+            metric_uncertainty[metric] = [matched["uncertainty"][metric].get(i, value)
+                                          for i, value in enumerate(metric_uncertainty[metric])]
     ladder_block = {"figure": key, "unit": "dB" if dims == 2 else "dBi", "cells_per_wavelength": ladder,
                     "values": values.get(key), "estimates": estimates.get(key, []), "all_figures": estimates}
-    block = comparison_block(case.frequencies, summary_models, tolerances, metric_uncertainty,
+    block = comparison_block(case.frequencies, compared, tolerances, metric_uncertainty,
                              model_checked=case.check_model, convergence=ladder_block)
+    add_feature_notes(block, matched["notes"])
     patterns = pattern_errors(models, sim_results, ladder)
     block["pattern_error"] = {"window_db": PATTERN_WINDOW_DB, "planes": patterns}
     block["extra_checks"] = extra_checks(case, block["model_checked"], patterns, fdtd, nf)

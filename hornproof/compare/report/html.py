@@ -38,7 +38,9 @@ The ``comparison`` block (produced by :func:`hornproof.compare.numerics.verdict.
             "phase_approximation_error": 0.3,  # closed_form − exact_phase
             "aperture_model_error": 0.2,       # exact_phase − fdtd
             "total_error": 0.5,                # closed_form − fdtd
-            "verdict": "agrees" | "disagrees" | "unresolved" | "missing"}]}],
+            "verdict": "agrees" | "disagrees" | "unresolved" | "missing",
+            "note": "..."}]}],               # optional: sidelobe/first-null rows where FDTD and
+                                             # the model name different features (jobs.sidelobe_match)
       "convergence": {                       # optional
         "figure": "directivity_dbi", "unit": "dBi",
         "cells_per_wavelength": [12, 16, 24],
