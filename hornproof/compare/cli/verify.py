@@ -70,12 +70,12 @@ def format_verdicts(summary):
                          f"{_number(row['closed_form'])} {_number(row['exact_phase'])} {_number(row['fdtd'])} "
                          f"{_number(row['fdtd_uncertainty'], 7, confident=row.get('uncertainty_confident', True))} "
                          f"{_number(row['difference'], 7)} {metric['tolerance']:6.2f}  "
-                         f"{row.get('ladder', ''):<18} {row['verdict']}")
+                         f"{row.get('ladder') or '':<18} {row['verdict']}")
     freqs = summary["frequencies_ghz"]
     for row in comparison.get("extra_checks", []):
         lines.append(f"  {row['check']:<30} {freqs[row['frequency_index']]:7.3f} {'':>8} {'':>8} "
                      f"{_number(row['value'])} {_number(row['uncertainty'], 7, confident=row.get('uncertainty_confident', True))} "
-                     f"{'':>7} {row['limit']:6.2f}  {row.get('ladder', ''):<18} {row['verdict']}")
+                     f"{'':>7} {row['limit']:6.2f}  {row.get('ladder') or '':<18} {row['verdict']}")
     lines.append(f"  overall: {comparison['overall']}")
     reasons = comparison.get("unresolved_reasons") or {}
     if comparison.get("unresolved_checks"):

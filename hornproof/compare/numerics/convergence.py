@@ -641,10 +641,18 @@ def disagreement_bound(estimate):
 
     A difference can be called a disagreement without a confident uncertainty only when it
     exceeds the tolerance by more than a bound the procedure can defend. hornproof accepts:
-    the confident uncertainty itself; and Roache's (1997) conservative GCI with Fs = 3 at the
-    assumed order, for two rungs and for a monotone ladder whose observed order is out of
-    range (with this module's coarse-pair floor). Oscillatory, divergent and one-rung ladders
-    have no such bound (None): their verdict can only be "unresolved".
+
+    * the confident uncertainty itself;
+    * Roache's (1997) conservative GCI with Fs = 3 at the assumed order, for two rungs and for
+      a monotone ladder whose observed order is out of range (with this module's coarse-pair
+      floor);
+    * for an oscillatory ladder, its whole spread (max − min over all rungs): Stern et al.
+      (2001) take half that range as the uncertainty of an oscillating solution (from
+      memory); the whole range is a factor 2 beyond it.
+
+    Divergent and one-rung ladders have no such bound (None): the differences grow or do not
+    exist, so nothing limits where the grid-converged value lies and the verdict can only be
+    "unresolved". The bound never supports "agrees" (see :func:`confident_uncertainty`).
 
     Parameters
     ----------
@@ -662,8 +670,12 @@ def disagreement_bound(estimate):
     if estimate is None:
         return None
     status, flags, kind, uncertainty, _, rungs = _estimate_fields(estimate)
-    if kind == "gci" and math.isfinite(uncertainty) and rungs >= 2 and (
+    if not (math.isfinite(uncertainty) and uncertainty >= 0):
+        return None
+    if kind == "gci" and rungs >= 2 and (
             status == "two-grid" or (status == "monotonic" and "spread-bound" not in flags)):
+        return uncertainty
+    if status == "oscillatory" and kind == "spread-bound" and rungs >= 3:
         return uncertainty
     return None
 

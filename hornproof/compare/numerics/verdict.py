@@ -357,8 +357,7 @@ def comparison_block(frequencies, models, tolerances, fdtd_uncertainties=None, *
             judged = [judge(difference[i], tolerance, estimates[i]) for i in range(nf)]
         else:
             judged = [{"verdict": v, "uncertainty": _finite_or_none(u), "confident": bool(np.isfinite(u)),
-                       "ladder": "given", "reason": "uncertainty given by the caller" if np.isfinite(u)
-                       else "no uncertainty"} for v, u in zip(verdicts(difference, tolerance, fdtd_uncertainty),
+                       "ladder": None, "reason": None} for v, u in zip(verdicts(difference, tolerance, fdtd_uncertainty),
                                                                fdtd_uncertainty)]
         metric_verdicts = [j["verdict"] for j in judged]
         all_verdicts.extend(metric_verdicts)
