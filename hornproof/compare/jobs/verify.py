@@ -9,6 +9,7 @@ The whole output folder is built under a temporary name beside the target and re
 complete, so an interrupted or failed run never leaves a half-written result folder.
 """
 
+import re
 import time
 from pathlib import Path
 
@@ -147,7 +148,7 @@ def add_overall_verdict(comparison):
 
 def unresolved_reasons(comparison):
     """{check: sorted distinct reasons} of every unresolved row (why no confident uncertainty,
-    or "uncertainty above tolerance" when it was confident but too large)."""
+    or that it was confident but too large), numbers such as the observed order left out."""
     rows = [(m["metric"], row) for m in comparison["metrics"] for row in m["per_frequency"]]
     rows += [(row["check"], row) for row in comparison["extra_checks"]]
     out = {}
@@ -155,7 +156,7 @@ def unresolved_reasons(comparison):
         if row["verdict"] == "unresolved":
             reason = (row.get("uncertainty_reason") if not row.get("uncertainty_confident")
                       else "confident uncertainty, too large to decide") or "no uncertainty"
-            out.setdefault(name, set()).add(reason)
+            out.setdefault(name, set()).add(re.sub(r" -?\d+\.\d+", "", reason))  # orders stay in the rows
     return {name: sorted(reasons) for name, reasons in sorted(out.items())}
 
 
