@@ -46,7 +46,8 @@ def synthetic_result(tmp_path, title="Synthetic horn <test> & co"):
             "fdtd": {"directivity_dbi": fd}},
         {"directivity_db": 0.5}, {"directivity_db": unc},
         convergence={"figure": "directivity_dbi", "unit": "dBi", "cells_per_wavelength": cpw,
-                     "values": ladder.tolist(), "estimates": [e.to_dict() for e in est]})
+                     "values": ladder.tolist(), "estimates": [e.to_dict() for e in est]},
+        fdtd_estimates={"directivity_db": [e.to_dict() for e in est]})
     result = {
         "schema": "hornproof.result/1", "case": "synthetic", "title": title,
         "case_sha256": "0" * 64, "frequencies_ghz": FREQS_GHZ,
@@ -90,8 +91,10 @@ def test_report_self_contained_verdicts_first_and_safety(tmp_path):
     # Figures: the given one plus those drawn from result.json, all embedded.
     assert text.count("data:image/png;base64,") == 4
     assert text.index("alt='pattern h plane'") < text.index("alt='directivity vs frequency'")
-    # The ladder status of each frequency is shown beside its verdict.
-    assert "oscillatory (spread bound)" in text
+    # The ladder health of each frequency and why its uncertainty is (not) confident are shown
+    # beside its verdict; an uncertainty that is not confident is marked.
+    assert "oscillatory: oscillatory ladder" in text and "monotone: monotone ladder, observed order" in text
+    assert "16.40 ± 0.90 (not confident)" in text
     # The safety caution and its two sources.
     assert RF_EXPOSURE_CAUTION.replace("&", "&amp;") in text
     assert "IEEE C95.1-2019" in text and "ICNIRP (2020)" in text
