@@ -15,10 +15,10 @@ for comparisons without numerical uncertainty (closed form against exact phase).
 smaller than its uncertainty is never a disagreement (|d| < u ⇒ |d| − u < 0 ≤ t).
 
 Which uncertainty. For an FDTD figure, u must be *confident*
-(:func:`hornproof.compare.numerics.convergence.confident_uncertainty`: a GCI from at least three
+(:func:`hornproof.compare.numerics.confidence.confident_uncertainty`: a GCI from at least three
 rungs with an observed order in range). Without one, the figure is ``"unresolved"``, never
 ``"agrees"``; it can still be ``"disagrees"`` when |d| − b > t for a bound b the convergence
-module defends (:func:`~hornproof.compare.numerics.convergence.disagreement_bound`; none for
+module defends (:func:`~hornproof.compare.numerics.confidence.disagreement_bound`; none for
 divergent, oscillatory or one-rung ladders). :func:`judge` applies this rule and returns the
 reason with the verdict; every FDTD verdict (figure rows, pattern RMS, S11) goes through it.
 
@@ -47,7 +47,7 @@ import math
 
 import numpy as np
 
-from .convergence import confident_uncertainty, disagreement_bound, ladder_health
+from .confidence import confident_uncertainty, disagreement_bound, ladder_health
 from .figures import METRICS
 
 VERDICTS = ("agrees", "disagrees", "unresolved", "missing")
@@ -139,7 +139,7 @@ def judge(difference, tolerance, estimate, *, limit=False):
     dict
         ``verdict``; ``uncertainty`` (the estimate's number whatever its kind, so a table never
         hides it; None if there is none); ``confident`` (bool); ``ladder`` (short label,
-        :func:`~hornproof.compare.numerics.convergence.ladder_health`); ``reason`` (why the
+        :func:`~hornproof.compare.numerics.confidence.ladder_health`); ``reason`` (why the
         uncertainty is or is not confident).
     """
     confident, reason = confident_uncertainty(estimate)

@@ -34,7 +34,7 @@ The ``comparison`` block (produced by :func:`hornproof.compare.numerics.verdict.
            {"frequency_ghz": 10.5,
             "closed_form": 17.9, "exact_phase": 17.6, "fdtd": 17.4,   # figure values (null ok)
             "fdtd_uncertainty": 0.2,         # absolute, same unit, confident or not; null = none
-            "uncertainty_confident": true,   # numerics.convergence.confident_uncertainty
+            "uncertainty_confident": true,   # numerics.confidence.confident_uncertainty
             "ladder": "monotone",            # ladder health ("oscillatory", "2 rungs", ...)
             "uncertainty_reason": "monotone ladder, observed order 1.02",
             "difference": 0.5,               # model_checked − fdtd

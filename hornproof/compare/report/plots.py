@@ -138,7 +138,7 @@ def plot_directivity_vs_frequency(frequencies, closed_form_dbi, exact_phase_dbi,
         FDTD numerical uncertainty, dB (error bars ±); NaN draws no bar.
     fdtd_confident : array_like of bool [nf], optional
         Whether each uncertainty is confident
-        (:func:`hornproof.compare.numerics.convergence.confident_uncertainty`); the others are
+        (:func:`hornproof.compare.numerics.confidence.confident_uncertainty`); the others are
         drawn as hollow markers with dashed bars and their own legend entry. Default: all
         confident.
     case_title : str

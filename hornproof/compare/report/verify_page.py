@@ -8,7 +8,7 @@ for its keys). Numbers are formatted by :mod:`hornproof.compare.report.format`.
 import math
 
 from ...units import GHZ
-from ..numerics.convergence import confident_uncertainty
+from ..numerics.confidence import confident_uncertainty
 from ..numerics.figures import directivity_key
 from ..numerics.verdict import COMPARED_FIGURES
 from . import plots

@@ -6,7 +6,7 @@ import numpy as np
 # hornproof.compare.report.plots imports matplotlib at its top: it is imported by the one caller,
 # verify.publish, only when a result folder is written (lazy for speed)
 from . import plots
-from ..numerics.convergence import confident_uncertainty
+from ..numerics.confidence import confident_uncertainty
 from ..numerics.figures import directivity_key
 from ..numerics.metrics import band_centre_index, interpolate_cut
 

@@ -38,7 +38,7 @@ def test_gentle_long_horn_never_disagrees_in_directivity(tmp_path):
     rows = _metric(summary, "directivity_2d_db")["per_frequency"]
     # Closed-form theory holds here (module docstring): FDTD must not disagree. Whether it may
     # say "agrees" depends on the ladder: only with a confident uncertainty (hornproof's rule,
-    # numerics.convergence.confident_uncertainty); with the shipped ladder it was oscillatory
+    # numerics.confidence.confident_uncertainty); with the shipped ladder it was oscillatory
     # at every frequency in development runs, hence "unresolved" with that reason.
     assert "disagrees" not in [r["verdict"] for r in rows]
     for r in rows:

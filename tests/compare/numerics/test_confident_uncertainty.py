@@ -1,6 +1,6 @@
 """The confident-uncertainty rule and the verdicts it allows, on ladders worked by hand.
 
-The rule is hornproof's own (numerics.convergence.confident_uncertainty), reasoned from
+The rule is hornproof's own (numerics.confidence.confident_uncertainty), reasoned from
 Roache (1997) and Celik et al. (2008): a discretisation-error estimate is credible only from
 at least three grids in the asymptotic range — a monotone ladder whose observed order lies in
 the accepted range — and then the GCI with safety factor 1.25 applies (Celik et al. 2008,
@@ -17,8 +17,8 @@ import math
 
 import pytest
 
-from hornproof.compare.numerics.convergence import (confident_uncertainty, disagreement_bound, estimate_ladder,
-                                                    ladder_health)
+from hornproof.compare.numerics.confidence import confident_uncertainty, disagreement_bound, ladder_health
+from hornproof.compare.numerics.convergence import estimate_ladder
 from hornproof.compare.numerics.verdict import comparison_block, judge, limit_verdict
 
 H3 = [1.0, 2.0, 4.0]
