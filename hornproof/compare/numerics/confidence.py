@@ -14,14 +14,8 @@ ladders give no extrapolation.
 
 References
 ----------
-P. J. Roache, "Quantification of uncertainty in computational fluid dynamics", Annu. Rev.
-Fluid Mech. 29 (1997) 123–160.
-I. B. Celik, U. Ghia, P. J. Roache, C. J. Freitas, H. Coleman, P. E. Raad, "Procedure for
-estimation and reporting of uncertainty due to discretization in CFD applications",
-J. Fluids Eng. 130 (2008) 078001.
-F. Stern, R. V. Wilson, H. W. Coleman, E. G. Paterson, "Comprehensive approach to
-verification and validation of CFD simulations — Part 1", J. Fluids Eng. 123 (2001) 793–802
-(oscillatory convergence; cited from memory).
+Roache (1997); Celik et al. (2008); Stern et al. (2001, oscillatory convergence, cited from
+memory): full citations in :mod:`hornproof.compare.numerics.convergence`.
 """
 
 import math
