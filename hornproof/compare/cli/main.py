@@ -2,7 +2,7 @@
 
 One module per subcommand does the work; this module only parses arguments, dispatches,
 and turns the user-facing errors (``hornproof.errors``) into one line and an exit status:
-0 ok · 1 a check or regression failed · 2 bad input · 3 the run failed.
+0 ok · 1 a check or regression failed · 2 bad input · 3 the run failed · 4 verify: unresolved.
 Anything else is a bug and keeps its traceback.
 """
 

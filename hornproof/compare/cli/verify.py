@@ -1,6 +1,7 @@
 """``hornproof verify CASE``: the main job (:mod:`hornproof.compare.jobs.verify`) and its
 table of verdicts."""
 
+import argparse
 from pathlib import Path
 
 from ..case.casefile import load_case
@@ -15,7 +16,24 @@ from .arguments import add_fdtd_run_arguments
 from .predict import horn_3d_lines
 
 
+#: exit status of ``verify``: every check agrees (or none was asked)
+EXIT_AGREES = 0
+#: a check disagrees (wins over unresolved)
+EXIT_DISAGREES = 1
+#: no check disagrees but at least one is unresolved (no confident uncertainty, or one larger
+#: than the tolerance); 2 and 3 stay the user-facing errors of ``hornproof.errors``
+EXIT_UNRESOLVED = 4
+
+EXIT_STATUS_HELP = f"""\
+exit status: {EXIT_AGREES} every check agrees · {EXIT_DISAGREES} a check disagrees (wins over unresolved) ·
+2 bad input · 3 the run failed · {EXIT_UNRESOLVED} no check disagrees but one is unresolved: its
+uncertainty is not confident (fewer than three rungs, a divergent or oscillatory ladder, an
+observed order out of range) or larger than the tolerance. The "ladder" column says which."""
+
+
 def setup_arguments(parser):
+    parser.epilog = EXIT_STATUS_HELP
+    parser.formatter_class = argparse.RawDescriptionHelpFormatter
     add_fdtd_run_arguments(parser, cells_metavar="N1,N2,N3",
                            cells_help="convergence ladder, overrides the case's own (e.g. 16,20,24)",
                            out_help="output folder (default: results/<case>/<hash>)")
@@ -28,32 +46,55 @@ def setup_arguments(parser):
                              "SECONDS (estimated from the rungs run so far)")
 
 
+def exit_status(comparison):
+    """Exit status of a verify run from its ``comparison`` block: 1 if any check disagrees, else 4
+    if any is unresolved, else 0."""
+    if comparison.get("failed_checks"):
+        return EXIT_DISAGREES
+    if comparison.get("unresolved_checks"):
+        return EXIT_UNRESOLVED
+    return EXIT_AGREES
+
+
+def _number(value, width=8, digits=2, confident=True):
+    """A table cell: the number (a trailing ``?`` when its uncertainty is not confident), or the
+    missing-value word."""
+    if value is None:
+        return MISSING_VALUE.rjust(width)
+    text = f"{value:.{digits}f}" + ("" if confident else "?")
+    return text.rjust(width)
+
+
 def format_verdicts(summary):
-    """People's view of a verify run: one line per checked metric and frequency."""
+    """People's view of a verify run: one line per checked metric and frequency, each with its
+    FDTD uncertainty (``?`` = not confident) and its ladder's health."""
     comparison = summary["comparison"]
     lines = [f"{summary['case']}: {summary.get('title') or ''}",
              f"  checked model: {comparison['model_checked']} against FDTD "
              f"(grids {', '.join(f'{c:g}' for c in summary['solver']['cells_per_wavelength'])} cells per wavelength)",
-             f"  {'metric':<24} {'f GHz':>7} {'closed':>8} {'exact':>8} {'FDTD':>8} {'+-':>6} {'diff':>7} {'tol':>5}  verdict"]
-
-    def fmt(v, w=8, d=2):
-        return MISSING_VALUE.rjust(w) if v is None else f"{v:{w}.{d}f}"
-
+             f"  {'metric':<30} {'f GHz':>7} {'closed':>8} {'exact':>8} {'FDTD':>8} {'+-':>7} {'diff':>7} {'tol':>6}"
+             f"  {'ladder':<18} verdict"]
     for metric in comparison["metrics"]:
         for row in metric["per_frequency"]:
-            lines.append(f"  {metric['label'] + ' (' + metric['unit'] + ')':<24} {row['frequency_ghz']:7.3f} "
-                         f"{fmt(row['closed_form'])} {fmt(row['exact_phase'])} {fmt(row['fdtd'])} "
-                         f"{fmt(row['fdtd_uncertainty'], 6)} {fmt(row['difference'], 7)} {metric['tolerance']:5.2f}  "
-                         f"{row['verdict']}")
+            lines.append(f"  {metric['label'] + ' (' + metric['unit'] + ')':<30} {row['frequency_ghz']:7.3f} "
+                         f"{_number(row['closed_form'])} {_number(row['exact_phase'])} {_number(row['fdtd'])} "
+                         f"{_number(row['fdtd_uncertainty'], 7, confident=row.get('uncertainty_confident', True))} "
+                         f"{_number(row['difference'], 7)} {metric['tolerance']:6.2f}  "
+                         f"{row.get('ladder') or '':<18} {row['verdict']}")
     freqs = summary["frequencies_ghz"]
     for row in comparison.get("extra_checks", []):
-        lines.append(f"  {row['check']:<24} {freqs[row['frequency_index']]:7.3f} {'':>8} {'':>8} "
-                     f"{fmt(row['value'])} {fmt(row['uncertainty'], 6)} {'':>7} {abs(row['limit']):5.2f}  {row['verdict']}")
+        lines.append(f"  {row['check']:<30} {freqs[row['frequency_index']]:7.3f} {'':>8} {'':>8} "
+                     f"{_number(row['value'])} {_number(row['uncertainty'], 7, confident=row.get('uncertainty_confident', True))} "
+                     f"{'':>7} {row['limit']:6.2f}  {row.get('ladder') or '':<18} {row['verdict']}")
     lines += horn_3d_lines(summary)  # a 2D case: the 3D horn's aperture models in dBi
     lines.append(f"  overall: {comparison['overall']}")
+    reasons = comparison.get("unresolved_reasons") or {}
     if comparison.get("unresolved_checks"):
-        lines.append("  unresolved: the numerical uncertainty exceeds the tolerance; use finer cells "
-                     "(--cells-per-wavelength) to decide")
+        lines.append("  unresolved (exit status 4 unless a check disagrees): no confident uncertainty, or one "
+                     "larger than the tolerance; ? marks an uncertainty that is not confident")
+        for name in comparison["unresolved_checks"]:
+            lines.append(f"    {name}: {'; '.join(reasons.get(name, [])) or 'see the table'}")
+        lines.append("  use more or finer grids (--cells-per-wavelength N1,N2,N3) to decide")
     lines.append(safety_lines())
     return "\n".join(lines)
 
@@ -84,4 +125,4 @@ def run(args):
     summary = verify_case(case, out_dir, force=args.force, goal=goal)
     if is_writer():
         emit_result(args.json, summary, format_verdicts(summary), f"report: {out_dir / 'report.html'}")
-    return 1 if summary["comparison"]["failed_checks"] else 0
+    return exit_status(summary["comparison"])

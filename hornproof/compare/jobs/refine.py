@@ -8,6 +8,7 @@ cells_per_wavelength^(dims + 1)) and memory (``sim.estimate``) are estimated; th
 stops, and says why, when the time would pass ``--budget`` or the memory would not fit.
 """
 
+import math
 from dataclasses import dataclass
 
 import numpy as np
@@ -16,9 +17,9 @@ from ...sim.estimate import available_memory_bytes, estimate_for_layout
 from ...sim.grid_fit import DEFAULT_RATIO, MIN_RATIO, fit_grid
 from ...sim.layout import plan_layout
 from ..numerics.figures import METRICS
-from ..numerics.power_balance import with_power_balance
-from ..numerics.verdict import verdict
-from .grid_plan import combine_uncertainty, flared_plane, geometry_residual
+from ..numerics.power_balance import POWER_BALANCE_FIGURES, power_balance_uncertainty_db
+from ..numerics.verdict import judge
+from .grid_plan import flared_plane, geometry_residual
 from .ladder import fdtd_figures, ladder_convergence, relative_cost
 
 
@@ -32,26 +33,30 @@ class RefinementGoal:
 
 
 def open_figures(case, summary_models, sim_results, fits, tolerances, target_db):
-    """Checked figures still open: [(metric, worst uncertainty or None, reason)]."""
+    """Checked figures still open: [(metric, uncertainty shown or None, verdict)], judged as
+    verify judges them (:func:`hornproof.compare.numerics.verdict.judge`: only a confident
+    ladder can support *agrees*)."""
     ladder = [fit.cells_per_wavelength for fit in fits]
     nf = len(case.frequencies)
-    uncertainty, _, _ = ladder_convergence(ladder, [fdtd_figures(r) for r in sim_results], nf)
-    geometry = geometry_residual(case, fits)
+    _, estimates, _ = ladder_convergence(ladder, [fdtd_figures(r) for r in sim_results], nf)
     finest = fdtd_figures(sim_results[int(np.argmax(ladder))])
-    uncertainty, _ = with_power_balance(uncertainty, finest.get("power_balance_error"))
+    power = power_balance_uncertainty_db(finest.get("power_balance_error") or [0.0] * nf)
+    geometry = geometry_residual(case, fits)
     model = summary_models[case.check_model]
     still_open = []
     for metric, tolerance in tolerances.items():
         figure = METRICS[metric]
-        combined = combine_uncertainty(uncertainty.get(figure.key, [None] * nf), geometry.get(figure.key))
         values, reference = finest.get(figure.key) or [None] * nf, model.get(figure.key) or [None] * nf
+        found = estimates.get(figure.key, [None] * nf)
         for index in range(nf):
             if values[index] is None or reference[index] is None:
                 continue
-            u = combined[index]
-            judged = verdict(reference[index] - values[index], tolerance, np.nan if u is None else u)
-            if judged == "unresolved" or (figure.unit == "dB" and (u is None or u > target_db)):
-                still_open.append((metric, u, judged))
+            extra = math.hypot(float(power[index]) if figure.key in POWER_BALANCE_FIGURES else 0.0,
+                               (geometry.get(figure.key) or [0.0] * nf)[index] or 0.0)
+            judged = judge(reference[index] - values[index], tolerance, found[index], extra=extra)
+            u = judged["uncertainty"]
+            if judged["verdict"] == "unresolved" or (figure.unit == "dB" and (u is None or u > target_db)):
+                still_open.append((metric, u, judged["verdict"]))
                 break
     return still_open
 

@@ -101,11 +101,14 @@ def matched_sidelobes(models, sim_results, ladder, model_checked, formal_order):
             for i in differ:
                 per_grid[g, i] = _level_at_model_sidelobe(result, attribute, mm, i)
         uncertainty = np.full(nf, np.nan)
+        found = [None] * nf
         if len(ladder) > 1:
             found = grid_convergence(per_grid, cells_per_wavelength=ladder, formal_order=formal_order)
             uncertainty = np.array([e.uncertainty for e in found], dtype=float)
         out["values"][sll_metric] = {i: float(per_grid[finest, i]) for i in differ}
         out["uncertainty"][sll_metric] = {i: float(uncertainty[i]) for i in differ}
+        out.setdefault("estimates", {})[sll_metric] = {i: None if found[i] is None else found[i].to_dict()
+                                                       for i in differ}
         for i in differ:
             out["notes"].setdefault(sll_metric, {})[i] = (
                 f"FDTD has {_describe(fm['main_lobe_edge'][i], fm['first_sidelobe_deg'][i])}, {model_checked} "

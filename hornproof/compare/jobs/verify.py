@@ -9,6 +9,7 @@ The whole output folder is built under a temporary name beside the target and re
 complete, so an interrupted or failed run never leaves a half-written result folder.
 """
 
+import re
 import time
 from pathlib import Path
 
@@ -17,8 +18,8 @@ import numpy as np
 from ..numerics.convergence import grid_convergence
 from ..numerics.figures import CHECK_METRICS, METRICS, directivity_key
 from ..numerics.metrics import interpolate_cut, pattern_error
-from ..numerics.power_balance import with_power_balance
-from ..numerics.verdict import comparison_block, verdict
+from ..numerics.power_balance import POWER_BALANCE_FIGURES, with_power_balance
+from ..numerics.verdict import comparison_block, judge
 from ..output.folders import publish_folder
 from ..output.json_document import jsonable
 from .ladder import FORMAL_ORDER, fdtd_figures, ladder_convergence, run_fdtd_ladder, solver_block, solver_warnings
@@ -70,9 +71,42 @@ def pattern_errors(models, sim_results, ladder):
             if len(ladder) > 1:
                 found = grid_convergence(np.array(per_level), cells_per_wavelength=ladder, formal_order=FORMAL_ORDER)
                 entry["uncertainty_db"] = [e.uncertainty if np.isfinite(e.uncertainty) else None for e in found]
+                entry["estimates"] = [e.to_dict() for e in found]
             else:
                 entry["uncertainty_db"] = [None] * len(entry["rms_db"])
+                entry["estimates"] = single_rung_estimates(np.array(per_level))
             out[plane][name] = entry
+    return out
+
+
+def single_rung_estimates(values):
+    """Estimates [nf] of a one-rung "ladder" (values [1, nf]): status "single", no uncertainty."""
+    return [{"status": "single", "values": [float(v) for v in column if np.isfinite(v)], "uncertainty": None,
+             "uncertainty_kind": "none", "flags": []} for column in np.atleast_2d(values).T]
+
+
+def figure_estimates(estimates, values, key, nf):
+    """The estimates [nf] of FDTD figure ``key`` (one-rung ones built from ``values``); None
+    entries when the figure has no ladder values at all."""
+    if key in estimates:
+        return estimates[key]
+    if key in values:
+        return single_rung_estimates(np.array(values[key], dtype=float))
+    return [None] * nf
+
+
+def non_ladder_uncertainty(fdtd, tolerances, nf):
+    """Metric -> [nf] uncertainty from outside the ladder: the power-balance term (directivity
+    and gains) and the grid fit's size residual, root-sum-square (``uncertainty_parts``)."""
+    parts = fdtd.get("uncertainty_parts") or {}
+    power = parts.get("power_balance_db") or [0.0] * nf
+    geometry = parts.get("geometry_residual") or {}
+    out = {}
+    for metric in tolerances:
+        key = METRICS[metric].key
+        power_term = [p or 0.0 for p in power] if key in POWER_BALANCE_FIGURES else [0.0] * nf
+        residual = [g or 0.0 for g in geometry.get(key, [0.0] * nf)]
+        out[metric] = [float(np.hypot(p, g)) for p, g in zip(power_term, residual)]
     return out
 
 
@@ -91,8 +125,18 @@ def check_tolerances(case, fdtd, dims):
     return tolerances
 
 
-def extra_checks(case, model_checked, patterns, fdtd, nf):
-    """Checks outside the model-vs-FDTD figure table: pattern RMS and the FDTD return loss."""
+def _check_row(check, i, value, limit, judged):
+    return {"check": check, "frequency_index": i, "value": value, "uncertainty": judged["uncertainty"],
+            "uncertainty_confident": judged["confident"], "ladder": judged["ladder"],
+            "uncertainty_reason": judged["reason"], "limit": limit, "verdict": judged["verdict"]}
+
+
+def extra_checks(case, model_checked, patterns, fdtd, nf, s11_estimates=None):
+    """Checks outside the model-vs-FDTD figure table: pattern RMS and the FDTD return loss.
+
+    Both are judged by :func:`hornproof.compare.numerics.verdict.judge` from their ladder
+    estimates: the RMS against its tolerance, S11 against its limit (value + u ≤ limit to
+    agree); ``s11_estimates`` [nf] are the ``s11_db`` estimates (None: no ladder)."""
     rows = []
     tolerance = case.checks.get("pattern_rms_db")
     if tolerance is not None:
@@ -100,20 +144,17 @@ def extra_checks(case, model_checked, patterns, fdtd, nf):
             entry = by_model.get(model_checked)
             if entry is None:
                 continue
+            estimates = entry.get("estimates") or [None] * nf
             for i in range(nf):
-                rms, uncertainty = entry["rms_db"][i], entry["uncertainty_db"][i]
-                judged = verdict(rms, tolerance, np.nan if uncertainty is None else uncertainty)
-                rows.append({"check": f"pattern_rms_{plane}", "frequency_index": i,
-                             "value": rms, "uncertainty": uncertainty, "limit": tolerance,
-                             "verdict": "missing" if rms is None else judged})
+                rms = entry["rms_db"][i]
+                rows.append(_check_row(f"pattern_rms_{plane}", i, rms, tolerance, judge(rms, tolerance, estimates[i])))
     limit = case.checks.get("s11_db")
     if limit is not None:
         s11 = fdtd.get("s11_db") or [None] * nf
+        s11_estimates = s11_estimates or [None] * nf
         for i in range(nf):
-            value = s11[i]
-            ok = value is not None and value <= -abs(limit)
-            rows.append({"check": "s11_db", "frequency_index": i, "value": value, "uncertainty": None,
-                         "limit": -abs(limit), "verdict": "missing" if value is None else ("agrees" if ok else "disagrees")})
+            rows.append(_check_row("s11_db", i, s11[i], -abs(limit),
+                                   judge(s11[i], -abs(limit), s11_estimates[i], limit=True)))
     return rows
 
 
@@ -125,8 +166,23 @@ def add_overall_verdict(comparison):
     unresolved = [name for name, judged in rows if judged == "unresolved"]
     comparison["failed_checks"] = sorted(set(failed))
     comparison["unresolved_checks"] = sorted(set(unresolved))
+    comparison["unresolved_reasons"] = unresolved_reasons(comparison)
     comparison["overall"] = ("disagrees" if failed else "unresolved" if unresolved else
                              "agrees" if (comparison["metrics"] or comparison["extra_checks"]) else "no checks")
+
+
+def unresolved_reasons(comparison):
+    """{check: sorted distinct reasons} of every unresolved row (why no confident uncertainty,
+    or that it was confident but too large), numbers such as the observed order left out."""
+    rows = [(m["metric"], row) for m in comparison["metrics"] for row in m["per_frequency"]]
+    rows += [(row["check"], row) for row in comparison["extra_checks"]]
+    out = {}
+    for name, row in rows:
+        if row["verdict"] == "unresolved":
+            reason = (row.get("uncertainty_reason") if not row.get("uncertainty_confident")
+                      else "confident uncertainty, too large to decide") or "no uncertainty"
+            out.setdefault(name, set()).add(re.sub(r" -?\d+\.\d+", "", reason))  # orders stay in the rows
+    return {name: sorted(reasons) for name, reasons in sorted(out.items())}
 
 
 def fdtd_model_block(case, sim_results, ladder, geometry=None):
@@ -178,12 +234,21 @@ def comparison(case, summary_models, models, sim_results, ladder, convergence):
                                           for i, value in enumerate(metric_uncertainty[metric])]
     ladder_block = {"figure": key, "unit": "dB" if dims == 2 else "dBi", "cells_per_wavelength": ladder,
                     "values": values.get(key), "estimates": estimates.get(key, []), "all_figures": estimates}
+    metric_estimates = {metric: list(figure_estimates(estimates, values, METRICS[metric].key, nf))
+                        for metric in tolerances}
+    for metric, rows in matched.get("estimates", {}).items():
+        for i, estimate in rows.items():
+            if metric in metric_estimates:
+                metric_estimates[metric][i] = estimate  # the ladder of the level actually compared
     block = comparison_block(case.frequencies, compared, tolerances, metric_uncertainty,
-                             model_checked=case.check_model, convergence=ladder_block)
+                             model_checked=case.check_model, convergence=ladder_block,
+                             fdtd_estimates=metric_estimates,
+                             fdtd_extra_uncertainties=non_ladder_uncertainty(fdtd, tolerances, nf))
     add_feature_notes(block, matched["notes"])
     patterns = pattern_errors(models, sim_results, ladder)
     block["pattern_error"] = {"window_db": PATTERN_WINDOW_DB, "planes": patterns}
-    block["extra_checks"] = extra_checks(case, block["model_checked"], patterns, fdtd, nf)
+    block["extra_checks"] = extra_checks(case, block["model_checked"], patterns, fdtd, nf,
+                                         figure_estimates(estimates, values, "s11_db", nf))
     add_overall_verdict(block)
     return block
 

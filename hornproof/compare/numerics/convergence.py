@@ -60,6 +60,10 @@ free-space dipole.
 With more than three grids the three finest are used for the estimate (flag
 ``"three-finest-of-N"``); the spread bound of a non-monotonic ladder uses all grids.
 
+Which of these numbers a verdict may lean on is one rule, in
+:mod:`hornproof.compare.numerics.confidence` (``confident_uncertainty``: the only uncertainty
+that may support "agrees", a three-grid GCI with the observed order in range).
+
 References
 ----------
 P. J. Roache, "Quantification of uncertainty in computational fluid dynamics", Annu. Rev.
@@ -78,6 +82,8 @@ from dataclasses import dataclass, field
 import math
 
 import numpy as np
+
+from .confidence import confident_uncertainty
 
 #: Safety factor for a three-grid study with an observed order (Roache 1997; Celik et al. 2008).
 SAFETY_FACTOR_THREE_GRID = 1.25
@@ -345,10 +351,9 @@ class ConvergenceEstimate:
 
     @property
     def confident(self):
-        """True when the uncertainty is a GCI from a well-behaved ladder (no flags)."""
-        return self.uncertainty_kind == "gci" and not (
-            {"order-out-of-range", "order-iteration-failed", "spread-bound"} & set(self.flags)
-        )
+        """True when :func:`confident_uncertainty` accepts this estimate (a three-rung GCI with
+        an observed order in range, or the whole spread of a three-rung oscillatory ladder)."""
+        return confident_uncertainty(self)[0] is not None
 
     def to_dict(self):
         """JSON-ready dict (NaN -> None)."""

@@ -14,6 +14,18 @@ An unknown uncertainty (NaN) is treated as unbounded: the verdict is ``"unresolv
 for comparisons without numerical uncertainty (closed form against exact phase). A difference
 smaller than its uncertainty is never a disagreement (|d| < u ⇒ |d| − u < 0 ≤ t).
 
+Which uncertainty. For an FDTD figure, u must be *confident*
+(:func:`hornproof.compare.numerics.confidence.confident_uncertainty`: a GCI from at least three
+rungs with an observed order in range). Without one, the figure is ``"unresolved"``, never
+``"agrees"``; it can still be ``"disagrees"`` when |d| − b > t for a bound b the convergence
+module defends (:func:`~hornproof.compare.numerics.confidence.disagreement_bound`; none for
+divergent, oscillatory or one-rung ladders). :func:`judge` applies this rule and returns the
+reason with the verdict; every FDTD verdict (figure rows, pattern RMS, S11) goes through it.
+
+Limit checks (S11 ≤ limit): ``"agrees"`` when value + u ≤ limit (the whole uncertainty band
+meets the limit), ``"disagrees"`` when value − b > limit, otherwise ``"unresolved"``
+(:func:`limit_verdict`).
+
 This is the comparison-error reasoning of ASME V&V 20-2009 (the comparison error E is judged
 against the validation uncertainty u_val), specialised to a stated tolerance; the exact
 three-way rule is hornproof's own.
@@ -31,8 +43,11 @@ ASME V&V 20-2009, Standard for Verification and Validation in Computational Flui
 and Heat Transfer (comparison error E and validation uncertainty u_val).
 """
 
+import math
+
 import numpy as np
 
+from .confidence import confident_uncertainty, disagreement_bound, ladder_health
 from .figures import METRICS
 
 VERDICTS = ("agrees", "disagrees", "unresolved", "missing")
@@ -47,7 +62,7 @@ def _float_array(values):
     return np.asarray(values, dtype=float)
 
 
-def verdict(difference, tolerance, uncertainty=0.0):
+def verdict(difference, tolerance, uncertainty=0.0, *, bound=math.nan):
     """Verdict on one difference.
 
     Parameters
@@ -57,7 +72,11 @@ def verdict(difference, tolerance, uncertainty=0.0):
     tolerance : float
         Accepted |difference|, figure units, ≥ 0.
     uncertainty : float
-        Numerical uncertainty of the difference, figure units, ≥ 0; NaN = unknown.
+        Numerical uncertainty of the difference, figure units, ≥ 0; NaN = unknown (no
+        confident uncertainty).
+    bound : float
+        Used only when ``uncertainty`` is NaN: a defended upper bound b (figure units) that
+        still allows ``"disagrees"`` when |d| − b > t; NaN = none (the default).
 
     Returns
     -------
@@ -74,7 +93,8 @@ def verdict(difference, tolerance, uncertainty=0.0):
     if np.isnan(difference):
         return "missing"
     if np.isnan(uncertainty):
-        return "unresolved"
+        bound = float(bound)
+        return "disagrees" if np.isfinite(bound) and abs(difference) - bound > tolerance else "unresolved"
     if abs(difference) - uncertainty > tolerance:
         return "disagrees"
     if uncertainty > tolerance:
@@ -93,6 +113,76 @@ def verdicts(differences, tolerance, uncertainties=0.0):
     d = np.atleast_1d(_float_array(differences))
     u = np.broadcast_to(_float_array(uncertainties), d.shape)
     return [verdict(di, tolerance, ui) for di, ui in zip(d, u)]
+
+
+def _finite_or_none(value):
+    return None if value is None or not math.isfinite(float(value)) else float(value)
+
+
+def judge(difference, tolerance, estimate, *, limit=False, extra=0.0):
+    """Verdict on an FDTD-based difference (or a limit check) from its ladder estimate.
+
+    Parameters
+    ----------
+    difference : float or None
+        Model − FDTD (figure units); for ``limit=True`` the FDTD value itself. None/NaN gives
+        ``"missing"``.
+    tolerance : float
+        The tolerance t (figure units, ≥ 0); for ``limit=True`` the limit (value ≤ limit).
+    estimate : dict or ConvergenceEstimate or None
+        The figure's convergence estimate at this frequency (``ConvergenceEstimate.to_dict()``).
+    limit : bool
+        Judge ``difference`` as a value against an upper limit (:func:`limit_verdict`).
+    extra : float
+        Further numerical uncertainty outside the ladder (figure units, ≥ 0; e.g. the finest
+        grid's power-balance term and the grid fit's size residual), combined root-sum-square
+        with the ladder's number and bound; it cannot make an unconfident ladder confident.
+
+    Returns
+    -------
+    dict
+        ``verdict``; ``uncertainty`` (the estimate's number whatever its kind, so a table never
+        hides it; None if there is none); ``confident`` (bool); ``ladder`` (short label,
+        :func:`~hornproof.compare.numerics.confidence.ladder_health`); ``reason`` (why the
+        uncertainty is or is not confident).
+    """
+    confident, reason = confident_uncertainty(estimate)
+    bound = disagreement_bound(estimate)
+    extra = 0.0 if extra is None or not math.isfinite(float(extra)) else abs(float(extra))
+    confident = None if confident is None else math.hypot(confident, extra)
+    bound = None if bound is None else math.hypot(bound, extra)
+    u = math.nan if confident is None else confident
+    b = math.nan if bound is None else bound
+    d = math.nan if difference is None else float(difference)
+    judged = limit_verdict(d, tolerance, u, bound=b) if limit else verdict(d, tolerance, u, bound=b)
+    shown = None
+    if estimate is not None:
+        shown = _finite_or_none(estimate.get("uncertainty") if isinstance(estimate, dict) else estimate.uncertainty)
+        shown = None if shown is None else math.hypot(shown, extra)
+    return {"verdict": judged, "uncertainty": shown, "confident": confident is not None,
+            "ladder": ladder_health(estimate), "reason": reason}
+
+
+def limit_verdict(value, limit, uncertainty=0.0, *, bound=math.nan):
+    """Verdict on a value that must not exceed ``limit`` (e.g. S11 ≤ −15 dB).
+
+    ``"agrees"`` if value + u ≤ limit; ``"disagrees"`` if value − u > limit (with u NaN:
+    value − ``bound`` > limit); ``"unresolved"`` otherwise (also when u is NaN and there is no
+    bound); ``"missing"`` when value is NaN. u, bound in the value's units, ≥ 0.
+    """
+    value, limit, uncertainty = float(value), float(limit), float(uncertainty)
+    if not np.isfinite(limit):
+        raise ValueError(f"limit: must be finite, got {limit}")
+    if uncertainty < 0:
+        raise ValueError(f"uncertainty: must be non-negative, got {uncertainty}")
+    if np.isnan(value):
+        return "missing"
+    margin = uncertainty if np.isfinite(uncertainty) else float(bound)
+    if np.isfinite(margin) and value - margin > limit:
+        return "disagrees"
+    if np.isfinite(uncertainty) and value + uncertainty <= limit:
+        return "agrees"
+    return "unresolved"
 
 
 def overall_verdict(verdict_list):
@@ -215,7 +305,8 @@ def _json_float(value):
 
 
 def comparison_block(frequencies, models, tolerances, fdtd_uncertainties=None, *,
-                     model_checked="closed_form", convergence=None):
+                     model_checked="closed_form", convergence=None, fdtd_estimates=None,
+                     fdtd_extra_uncertainties=None):
     """The ``comparison`` block of result.json (documented in :mod:`hornproof.compare.report.html`).
 
     Parameters
@@ -231,10 +322,16 @@ def comparison_block(frequencies, models, tolerances, fdtd_uncertainties=None, *
     fdtd_uncertainties : dict of str -> array_like [nf], optional
         Metric name -> absolute numerical uncertainty of the FDTD value (e.g. the GCI from
         :mod:`hornproof.compare.numerics.convergence`); missing = unknown (NaN, verdict "unresolved").
+        Taken as confident as given (the caller vouches, e.g. an exact reference); a metric with
+        an entry in ``fdtd_estimates`` ignores it.
     model_checked : {"closed_form", "exact_phase"}
         The analytic model the verdict is about; its difference to FDTD is judged.
     convergence : dict, optional
         Stored as is under ``"convergence"`` (see the report module docstring).
+    fdtd_estimates : dict of str -> list of dict [nf], optional
+        Metric name -> the FDTD figure's convergence estimate per frequency
+        (``ConvergenceEstimate.to_dict()``; None = no ladder). The verdict then follows
+        :func:`judge`: only a confident uncertainty can support "agrees".
 
     Returns
     -------
@@ -264,16 +361,28 @@ def comparison_block(frequencies, models, tolerances, fdtd_uncertainties=None, *
         split = error_split(closed_form, exact_phase, fdtd)
         checked = closed_form if model_checked == "closed_form" else exact_phase
         difference = checked - fdtd
-        metric_verdicts = verdicts(difference, tolerance, fdtd_uncertainty)
+        if metric in (fdtd_estimates or {}):
+            estimates = list(fdtd_estimates[metric]) + [None] * max(0, nf - len(fdtd_estimates[metric]))
+            extra = list((fdtd_extra_uncertainties or {}).get(metric, [])) + [0.0] * nf
+            judged = [judge(difference[i], tolerance, estimates[i], extra=extra[i]) for i in range(nf)]
+        else:
+            judged = [{"verdict": v, "uncertainty": _finite_or_none(u), "confident": bool(np.isfinite(u)),
+                       "ladder": None, "reason": None} for v, u in zip(verdicts(difference, tolerance, fdtd_uncertainty),
+                                                               fdtd_uncertainty)]
+        metric_verdicts = [j["verdict"] for j in judged]
         all_verdicts.extend(metric_verdicts)
         rows = []
         for i in range(nf):
+            fdtd_uncertainty_shown = judged[i]["uncertainty"]
             rows.append({
                 "frequency_ghz": _json_float(f[i] / 1e9),
                 "closed_form": _json_float(closed_form[i]),
                 "exact_phase": _json_float(exact_phase[i]),
                 "fdtd": _json_float(fdtd[i]),
-                "fdtd_uncertainty": _json_float(fdtd_uncertainty[i]),
+                "fdtd_uncertainty": None if fdtd_uncertainty_shown is None else _json_float(fdtd_uncertainty_shown),
+                "uncertainty_confident": judged[i]["confident"],
+                "ladder": judged[i]["ladder"],
+                "uncertainty_reason": judged[i]["reason"],
                 "difference": _json_float(difference[i]),
                 "phase_approximation_error": _json_float(split["phase_approximation_error"][i]),
                 "aperture_model_error": _json_float(split["aperture_model_error"][i]),

@@ -33,7 +33,10 @@ The ``comparison`` block (produced by :func:`hornproof.compare.numerics.verdict.
          "per_frequency": [
            {"frequency_ghz": 10.5,
             "closed_form": 17.9, "exact_phase": 17.6, "fdtd": 17.4,   # figure values (null ok)
-            "fdtd_uncertainty": 0.2,         # absolute, same unit; null = unknown
+            "fdtd_uncertainty": 0.2,         # absolute, same unit, confident or not; null = none
+            "uncertainty_confident": true,   # numerics.confidence.confident_uncertainty
+            "ladder": "monotone",            # ladder health ("oscillatory", "2 rungs", ...)
+            "uncertainty_reason": "monotone ladder, observed order 1.02",
             "difference": 0.5,               # model_checked − fdtd
             "phase_approximation_error": 0.3,  # closed_form − exact_phase
             "aperture_model_error": 0.2,       # exact_phase − fdtd
@@ -45,7 +48,14 @@ The ``comparison`` block (produced by :func:`hornproof.compare.numerics.verdict.
         "figure": "directivity_dbi", "unit": "dBi",
         "cells_per_wavelength": [12, 16, 24],
         "values": [[...nf...], [...], [...]],  # [ngrid][nf], same order as the ladder
-        "estimates": [ConvergenceEstimate.to_dict(), ...]}   # one per frequency
+        "estimates": [ConvergenceEstimate.to_dict(), ...],   # one per frequency
+        "all_figures": {figure: [ConvergenceEstimate.to_dict(), ...]}},
+      "extra_checks": [                      # written by jobs.verify: pattern RMS, S11
+        {"check": "s11_db", "frequency_index": 0, "value": -20.3, "limit": -15.0,
+         "uncertainty": 1.2, "uncertainty_confident": true, "ladder": "monotone",
+         "uncertainty_reason": "...", "verdict": "agrees"}],
+      "failed_checks": [...], "unresolved_checks": [...],
+      "unresolved_reasons": {check: [reason, ...]}
     }
 
 Figures: the PNG files in the folder, in the order of :data:`plots.STANDARD_STEMS` (then any

@@ -122,7 +122,7 @@ def _clip_to_values(ax, series, shape, margin_db=3.0):
 
 
 def plot_directivity_vs_frequency(frequencies, closed_form_dbi, exact_phase_dbi, fdtd_dbi,
-                                  path_stem, *, fdtd_uncertainty_db=None, case_title="",
+                                  path_stem, *, fdtd_uncertainty_db=None, fdtd_confident=None, case_title="",
                                   unit="dBi", quantity="Directivity"):
     """Directivity of the three models over the band, FDTD with error bars.
 
@@ -136,6 +136,11 @@ def plot_directivity_vs_frequency(frequencies, closed_form_dbi, exact_phase_dbi,
         Output path without extension.
     fdtd_uncertainty_db : array_like [nf], optional
         FDTD numerical uncertainty, dB (error bars ±); NaN draws no bar.
+    fdtd_confident : array_like of bool [nf], optional
+        Whether each uncertainty is confident
+        (:func:`hornproof.compare.numerics.confidence.confident_uncertainty`); the others are
+        drawn as hollow markers with dashed bars and their own legend entry. Default: all
+        confident.
     case_title : str
     unit, quantity : str
         Axis unit and name (e.g. "dB" and "2D directivity" for dims = 2).
@@ -155,13 +160,7 @@ def plot_directivity_vs_frequency(frequencies, closed_form_dbi, exact_phase_dbi,
                 markersize=4.5, color=MODEL_COLOURS[key], linewidth=1.4, label=MODEL_LABELS[key])
     if fdtd_dbi is not None:
         y = float_array(fdtd_dbi, "fdtd_dbi", f.shape)
-        err = None
-        if fdtd_uncertainty_db is not None:
-            err = np.nan_to_num(float_array(fdtd_uncertainty_db, "fdtd_uncertainty_db", f.shape), nan=0.0)
-        ax.errorbar(f_ghz, y, yerr=err, fmt="o", markersize=5, color=MODEL_COLOURS["fdtd"],
-                    ecolor=MODEL_COLOURS["fdtd"], elinewidth=1.2, capsize=4, linestyle="-",
-                    linewidth=1.6,
-                    label=MODEL_LABELS["fdtd"] + (" ± numerical uncertainty" if err is not None else ""))
+        _fdtd_with_bars(ax, f_ghz, y, fdtd_uncertainty_db, fdtd_confident)
     _clip_to_values(ax, [closed_form_dbi, exact_phase_dbi, fdtd_dbi], f.shape)
     if f.size == 1:
         ax.set_xlim(f_ghz[0] - 0.5, f_ghz[0] + 0.5)
@@ -170,6 +169,28 @@ def plot_directivity_vs_frequency(frequencies, closed_form_dbi, exact_phase_dbi,
     set_title(ax, case_title, f"{quantity} over the band")
     legend_below(ax)
     return save_figure(fig, path_stem)
+
+
+def _fdtd_with_bars(ax, f_ghz, y, uncertainty, confident):
+    """The FDTD curve; error bars solid where the uncertainty is confident, dashed with hollow
+    markers where it is not (so a bar never looks more trustworthy than it is)."""
+    colour = MODEL_COLOURS["fdtd"]
+    if uncertainty is None:
+        ax.plot(f_ghz, y, "-", marker="o", markersize=5, color=colour, linewidth=1.6, label=MODEL_LABELS["fdtd"])
+        return
+    err = np.nan_to_num(float_array(uncertainty, "fdtd_uncertainty_db", y.shape), nan=0.0)
+    sure = np.ones(y.shape, dtype=bool) if confident is None else np.asarray(confident, dtype=bool).reshape(y.shape)
+    ax.plot(f_ghz, y, "-", color=colour, linewidth=1.6)
+    if np.any(sure):
+        ax.errorbar(f_ghz[sure], y[sure], yerr=err[sure], fmt="o", markersize=5, color=colour, ecolor=colour,
+                    elinewidth=1.2, capsize=4, linestyle="none",
+                    label=MODEL_LABELS["fdtd"] + " ± numerical uncertainty (GCI)")
+    if np.any(~sure):
+        bars = ax.errorbar(f_ghz[~sure], y[~sure], yerr=err[~sure], fmt="o", markersize=6, color=colour,
+                           markerfacecolor="white", ecolor=colour, elinewidth=1.2, capsize=4, linestyle="none",
+                           label=MODEL_LABELS["fdtd"] + ": uncertainty not confident (ladder, not a GCI)")
+        for line in bars[2]:
+            line.set_linestyle("--")
 
 
 def _estimate_field(estimate, name):

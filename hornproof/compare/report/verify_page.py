@@ -8,16 +8,18 @@ for its keys). Numbers are formatted by :mod:`hornproof.compare.report.format`.
 import math
 
 from ...units import GHZ
+from ..numerics.confidence import confident_uncertainty
 from ..numerics.figures import directivity_key
 from ..numerics.verdict import COMPARED_FIGURES
 from . import plots
+from .verify_plots import confident_flags
 from .format import CHECK_NAMES, MISSING_VALUE, number, quantity_rows, unit_decimals
 
 #: verdict words shown to people (DISAGREES in capitals so it cannot be missed)
 VERDICT_TEXT = {
     "agrees": "agrees",
     "disagrees": "DISAGREES",
-    "unresolved": "unresolved — needs finer cells",
+    "unresolved": "unresolved",
     "missing": MISSING_VALUE,
     "no checks": "no checks requested",
 }
@@ -42,6 +44,25 @@ def ladder_status(comparison, metric_name):
     return out
 
 
+#: appended to an uncertainty that is not confident (no GCI from a healthy three-rung ladder)
+NOT_CONFIDENT_MARK = " (not confident)"
+
+
+def uncertainty_text(value, confident, digits=2):
+    """An uncertainty for a table: the number, marked when it is not confident."""
+    text = number(value, digits)
+    return text if confident or value is None else text + NOT_CONFIDENT_MARK
+
+
+def ladder_text(row, fallback=MISSING_VALUE):
+    """The ladder cell of a row written by verify: ``"monotone: monotone ladder, observed order
+    1.02"``; ``fallback`` for rows without one (older results)."""
+    label, reason = row.get("ladder"), row.get("uncertainty_reason")
+    if not label:
+        return fallback
+    return f"{label}: {reason}" if reason else str(label)
+
+
 def verdict_rows(comparison):
     """One row per metric and frequency of the comparison block."""
     rows = []
@@ -52,7 +73,8 @@ def verdict_rows(comparison):
             verdict = str(row.get("verdict", "missing"))
             fdtd = number(row.get("fdtd"), digits)
             if row.get("fdtd") is not None:
-                fdtd += " ± " + number(row.get("fdtd_uncertainty"), digits)
+                fdtd += " ± " + uncertainty_text(row.get("fdtd_uncertainty"), row.get("uncertainty_confident", True),
+                                                 digits)
             rows.append({
                 "metric": metric.get("label", metric.get("metric", MISSING_VALUE)),
                 "frequency": number(row.get("frequency_ghz")),
@@ -63,7 +85,8 @@ def verdict_rows(comparison):
                 "verdict_text": VERDICT_TEXT.get(verdict, verdict),
                 "phase_approximation_error": number(row.get("phase_approximation_error"), digits),
                 "aperture_model_error": number(row.get("aperture_model_error"), digits),
-                "unit": metric.get("unit", ""), "ladder": ladder[i] if i < len(ladder) else MISSING_VALUE,
+                "unit": metric.get("unit", ""),
+                "ladder": ladder_text(row, ladder[i] if i < len(ladder) else MISSING_VALUE),
             })
     return rows
 
@@ -83,8 +106,10 @@ def extra_check_rows(result):
         check = str(row.get("check", MISSING_VALUE))
         rows.append({"check": CHECK_NAMES.get(check, check.replace("_", " ")),
                      "frequency": number(frequency_at(result, row.get("frequency_index"))),
-                     "value": number(row.get("value"), 2), "uncertainty": number(row.get("uncertainty"), 2),
+                     "value": number(row.get("value"), 2),
+                     "uncertainty": uncertainty_text(row.get("uncertainty"), row.get("uncertainty_confident", True)),
                      "limit": number(row.get("limit"), 2), "verdict": verdict,  # all in dB
+                     "ladder": ladder_text(row),
                      "verdict_text": VERDICT_TEXT.get(verdict, verdict)})
     return rows
 
@@ -98,11 +123,13 @@ def pattern_error_rows(result):
         for model, entry in (by_model or {}).items():
             rms = entry.get("rms_db") or []
             missing = [None] * len(rms)
+            estimates = entry.get("estimates") or missing
             for i, value in enumerate(rms):
+                sure = estimates[i] is None or confident_uncertainty(estimates[i])[0] is not None
                 rows.append({"plane": plane.replace("_", "-").replace("h-", "H-").replace("e-", "E-"),
                              "model": MODEL_NAMES.get(model, model.replace("_", " ")).capitalize(),
                              "frequency": number(frequency_at(result, i)), "rms": number(value, 2),
-                             "uncertainty": number((entry.get("uncertainty_db") or missing)[i], 2),
+                             "uncertainty": uncertainty_text((entry.get("uncertainty_db") or missing)[i], sure),
                              "worst": number((entry.get("worst_db") or missing)[i], 2),
                              "worst_angle": number((entry.get("worst_angle_deg") or missing)[i], 1)})
     return rows
@@ -150,8 +177,10 @@ def figure_captions(result):
     stored = (models.get("fdtd") or {}).get("uncertainty") or {}
     has_bars = any(v is not None for values in stored.values() for v in (values or []))
     quantity = "2D directivity" if result.get("dims") == 2 else "Directivity"
-    captions["directivity_vs_frequency"] = (f"{quantity} over the band"
-                                            + ("; bars: FDTD numerical uncertainty." if has_bars else "."))
+    captions["directivity_vs_frequency"] = (
+        f"{quantity} over the band" + ("; bars: FDTD numerical uncertainty — solid with filled markers where it "
+                                        "is a confident GCI, dashed with hollow markers where the ladder gives "
+                                        "no confident uncertainty (those verdicts are unresolved)." if has_bars else "."))
     captions["s11"] = "Input reflection |S11| (dB) at the feed guide, FDTD model."
     captions["model"] = "The modelled metal on the finest grid, as the FDTD solver sees it."
     convergence = (result.get("comparison") or {}).get("convergence") or {}
@@ -210,10 +239,13 @@ def render_missing_result_figures(folder, result):
         if any(c is not None for c in curves):
             stored = models.get("fdtd", {}).get("uncertainty", {}) or {}
             uncertainty = stored.get(key, stored.get("directivity_db"))
+            all_estimates = ((result.get("comparison") or {}).get("convergence") or {}).get("all_figures") or {}
             plots.plot_directivity_vs_frequency(
                 frequencies, *[None if c is None else floats(c) for c in curves],
                 folder / "directivity_vs_frequency",
-                fdtd_uncertainty_db=None if uncertainty is None else floats(uncertainty), case_title=title,
+                fdtd_uncertainty_db=None if uncertainty is None else floats(uncertainty),
+                fdtd_confident=confident_flags(all_estimates.get(key), len(f_ghz)) if key in all_estimates else None,
+                case_title=title,
                 unit=unit, quantity="2D directivity" if unit == "dB" else "Directivity")
     s11 = models.get("fdtd", {}).get("s11_db")
     if s11 is not None and not (folder / "s11.png").exists():

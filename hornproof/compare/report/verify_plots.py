@@ -6,6 +6,7 @@ import numpy as np
 # hornproof.compare.report.plots imports matplotlib at its top: it is imported by the one caller,
 # verify.publish, only when a result folder is written (lazy for speed)
 from . import plots
+from ..numerics.confidence import confident_uncertainty
 from ..numerics.figures import directivity_key
 from ..numerics.metrics import band_centre_index, interpolate_cut
 
@@ -36,6 +37,12 @@ def write_pattern_overlays(folder, case, models, sim_results, ladder):
             plane=letter, frequency=freqs[centre], case_title=case.title or case.name, unit=unit)
 
 
+def confident_flags(estimates, nf):
+    """[nf] bools: is each frequency's uncertainty confident (``confident_uncertainty``)?"""
+    estimates = list(estimates or []) + [None] * nf
+    return [confident_uncertainty(estimates[i])[0] is not None for i in range(nf)]
+
+
 def write_verify_plots(folder, case, summary, models, sim_results, ladder, convergence):
     """Every figure of a verify run into ``folder`` (PNG + SVG each)."""
     uncertainty, estimates, _ = convergence
@@ -52,7 +59,8 @@ def write_verify_plots(folder, case, summary, models, sim_results, ladder, conve
         freqs, summary["models"]["closed_form"][key], summary["models"]["exact_phase"][key], fdtd[key],
         folder / "directivity_vs_frequency",
         fdtd_uncertainty_db=[np.nan if v is None else v for v in uncertainty.get(key, [None] * len(freqs))],
-        case_title=title, unit=unit, quantity=quantity)
+        fdtd_confident=confident_flags(estimates.get(key), len(freqs)), case_title=title, unit=unit,
+        quantity=quantity)
     if len(ladder) > 1 and key in estimates:
         column = [np.nan if row[centre] is None else row[centre]
                   for row in summary["comparison"]["convergence"]["values"]]

@@ -188,3 +188,19 @@ def test_sigterm_during_verify_leaves_nothing_behind(tmp_path):
     assert proc.returncode == 143, err
     assert "terminated" in err and "Traceback" not in err
     assert list(tmp_path.iterdir()) == []
+
+
+def test_verify_exit_status_disagrees_wins_over_unresolved():
+    # the documented exit statuses of verify (README "Commands"): 1 beats 4, 4 beats 0
+    from hornproof.compare.cli.verify import exit_status
+    assert exit_status({"failed_checks": ["hpbw_h_deg"], "unresolved_checks": ["directivity_db"]}) == 1
+    assert exit_status({"failed_checks": [], "unresolved_checks": ["directivity_db"]}) == 4
+    assert exit_status({"failed_checks": [], "unresolved_checks": []}) == 0
+
+
+def test_verify_help_documents_exit_status_4(capsys):
+    from hornproof.compare.cli.main import main as cli_main
+    with pytest.raises(SystemExit):
+        cli_main(["verify", "--help"])
+    text = capsys.readouterr().out
+    assert "exit status" in text and "4 no check disagrees but one is unresolved" in " ".join(text.split())

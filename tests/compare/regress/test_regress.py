@@ -680,8 +680,17 @@ def test_real_runs_repeat_exactly_through_the_command_line(real_cases):
     assert {f["status"] for c in document["cases"] for f in c["figures"]} == {"unchanged"}
     assert all((real_cases / c["report"]).is_file() for c in document["cases"])
     root = ET.parse(real_cases / "results" / "regress-quick.junit.xml").getroot()
-    assert root.get("failures") == "0" and int(root.get("tests")) == 2 + sum(len(c["figures"])
-                                                                             for c in document["cases"])
+    # per case a "run" and a "verdict" testcase, then one per figure
+    assert root.get("failures") == "0" and int(root.get("tests")) == 2 * 2 + sum(len(c["figures"])
+                                                                                 for c in document["cases"])
+    # the quick tier runs one grid: no confident uncertainty, so verify's verdict is unresolved
+    # (or there were no checks) and an unresolved one is shown as skipped
+    verdicts = [t for t in root.iter("testcase") if t.get("name") == "verdict"]
+    assert len(verdicts) == 2
+    for testcase in verdicts:
+        skipped = testcase.find("skipped")
+        assert (skipped is not None and skipped.get("message").startswith("unresolved: ")) or \
+            testcase.find("system-out").text == "verdict: no checks"
 
 
 @pytest.mark.fullwave

@@ -34,8 +34,8 @@ def synthetic_result(tmp_path, title="Synthetic horn <test> & co"):
     # 9.5 GHz: 15.4, 15.5, 15.6 — equal steps with r21 = 1.5, r32 = 1.333 is first order
     #   (ε32/ε21 = r21 (r32 − 1)/(r21 − 1) = 1 at p = 1), GCI = 1.25·0.1/(1.5 − 1) = 0.25 dB;
     #   d = 16.0 − 15.6 = 0.4 ≤ t + u with u ≤ t -> agrees.
-    # 10.5 GHz: 16.0, 16.9, 16.4 — up then down: oscillatory, spread bound 0.9 dB > t
-    #   -> unresolved (|d| − u = 0.4 − 0.9 < t).
+    # 10.5 GHz: 16.0, 16.9, 16.4 — up then down: oscillatory, bounded by its whole spread
+    #   0.9 dB > t -> unresolved (|d| − u = 0.4 − 0.9 < t, u > t).
     # 11.5 GHz: 16.2, 16.3, 16.4 — first order again, u = 0.25; d = 17.6 − 16.4 = 1.2,
     #   |d| − u = 0.95 > 0.5 -> disagrees.
     ladder = np.array([[15.4, 16.0, 16.2], [15.5, 16.9, 16.3], [15.6, 16.4, 16.4]])
@@ -46,7 +46,8 @@ def synthetic_result(tmp_path, title="Synthetic horn <test> & co"):
             "fdtd": {"directivity_dbi": fd}},
         {"directivity_db": 0.5}, {"directivity_db": unc},
         convergence={"figure": "directivity_dbi", "unit": "dBi", "cells_per_wavelength": cpw,
-                     "values": ladder.tolist(), "estimates": [e.to_dict() for e in est]})
+                     "values": ladder.tolist(), "estimates": [e.to_dict() for e in est]},
+        fdtd_estimates={"directivity_db": [e.to_dict() for e in est]})
     result = {
         "schema": "hornproof.result/1", "case": "synthetic", "title": title,
         "case_sha256": "0" * 64, "frequencies_ghz": FREQS_GHZ,
@@ -90,8 +91,11 @@ def test_report_self_contained_verdicts_first_and_safety(tmp_path):
     # Figures: the given one plus those drawn from result.json, all embedded.
     assert text.count("data:image/png;base64,") == 4
     assert text.index("alt='pattern h plane'") < text.index("alt='directivity vs frequency'")
-    # The ladder status of each frequency is shown beside its verdict.
-    assert "oscillatory (spread bound)" in text
+    # The ladder health of each frequency and why its uncertainty is (not) confident are shown
+    # beside its verdict; an uncertainty that is not confident is marked.
+    assert "oscillatory: oscillatory ladder, bounded by its whole spread" in text
+    assert "monotone: monotone ladder, observed order" in text
+    assert "16.40 ± 0.90" in text and "(not confident)" not in text
     # The safety caution and its two sources.
     assert RF_EXPOSURE_CAUTION.replace("&", "&amp;") in text
     assert "IEEE C95.1-2019" in text and "ICNIRP (2020)" in text
