@@ -95,7 +95,7 @@ def test_report_self_contained_verdicts_first_and_safety(tmp_path):
     # beside its verdict; an uncertainty that is not confident is marked.
     assert "oscillatory: oscillatory ladder, bounded by its whole spread" in text
     assert "monotone: monotone ladder, observed order" in text
-    assert "16.40 ± 0.90" in text and "(not confident)" not in text
+    assert "16.40 ± 0.90" in text and "16.40 ± 0.90 (not confident)" not in text
     # The safety caution and its two sources.
     assert RF_EXPOSURE_CAUTION.replace("&", "&amp;") in text
     assert "IEEE C95.1-2019" in text and "ICNIRP (2020)" in text
