@@ -67,8 +67,11 @@ def confident_uncertainty(estimate):
       solution (from memory), so the whole range is a factor 2 beyond it. Staircased PEC horns
       oscillate at the 0.05–0.2 dB level on every ladder tried here (up to 85 cells per
       wavelength on the 2D demo), so without this no staircased horn could ever be decided;
-    * a monotone ladder with an observed order out of range, or none: not in the asymptotic
-      range (Celik et al. 2008, step 5 discussion).
+    * a monotone ladder without an observed order. A monotone ladder of three or more rungs
+      whose observed order is out of range is not shown to be in the asymptotic range (Celik et
+      al. 2008, step 5 discussion); it is confident only through the conservative GCI with
+      safety factor 3 at the formal order (Roache 1997), which the convergence module then
+      computes (with its coarse-pair floor).
 
     A three-rung ladder classed ``"converged"`` (every difference within the stated noise
     floor) is confident with the larger of its spread and the noise floor: the values already
@@ -94,6 +97,9 @@ def confident_uncertainty(estimate):
     if "order-iteration-failed" in flags or not math.isfinite(order):
         return None, "monotone ladder without an observed order"
     if "order-out-of-range" in flags:
+        if kind == "gci" and rungs >= 3 and math.isfinite(uncertainty):
+            return uncertainty, (f"monotone ladder, observed order {order:.2f} out of range: "
+                                 f"GCI with Fs = 3 at the formal order")
         return None, f"monotone ladder, observed order {order:.2f} out of range"
     if kind != "gci" or "spread-bound" in flags or "assumed-order" in flags:
         return None, "no GCI from an observed order"

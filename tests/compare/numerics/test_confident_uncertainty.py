@@ -59,13 +59,14 @@ def test_unhealthy_ladders_give_no_confident_uncertainty(values, h, health, reas
     assert not estimate_ladder(h, values).confident
 
 
-def test_out_of_range_order_is_not_confident():
-    # φ = 1 + 0.01 h^5: p = 5 > 2 × formal order (Celik et al. 2008: outside the asymptotic range)
+def test_out_of_range_order_is_confident_only_through_the_conservative_gci():
+    # φ = 1 + 0.01 h^5: p = 5 > 2 × formal order (Celik et al. 2008: outside the asymptotic
+    # range); with three rungs the Fs = 3 GCI at the formal order (Roache 1997) is the number
     estimate = _estimate([1 + 0.01 * h**5 for h in H3])
     value, reason = confident_uncertainty(estimate)
-    assert value is None and "5.00 out of range" in reason
+    assert value == pytest.approx(estimate["uncertainty"]) and "5.00 out of range" in reason
+    assert "Fs = 3" in reason and estimate["safety_factor"] == 3.0
     assert ladder_health(estimate) == "monotone, order ?"
-    # the Fs = 3 fallback still bounds a disagreement
     assert disagreement_bound(estimate) == pytest.approx(estimate["uncertainty"])
 
 
