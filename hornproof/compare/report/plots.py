@@ -184,11 +184,11 @@ def _fdtd_with_bars(ax, f_ghz, y, uncertainty, confident):
     if np.any(sure):
         ax.errorbar(f_ghz[sure], y[sure], yerr=err[sure], fmt="o", markersize=5, color=colour, ecolor=colour,
                     elinewidth=1.2, capsize=4, linestyle="none",
-                    label=MODEL_LABELS["fdtd"] + " ± numerical uncertainty (GCI)")
+                    label=MODEL_LABELS["fdtd"] + " ± confident numerical uncertainty")
     if np.any(~sure):
         bars = ax.errorbar(f_ghz[~sure], y[~sure], yerr=err[~sure], fmt="o", markersize=6, color=colour,
                            markerfacecolor="white", ecolor=colour, elinewidth=1.2, capsize=4, linestyle="none",
-                           label=MODEL_LABELS["fdtd"] + ": uncertainty not confident (ladder, not a GCI)")
+                           label=MODEL_LABELS["fdtd"] + ": uncertainty not confident (see the ladder column)")
         for line in bars[2]:
             line.set_linestyle("--")
 

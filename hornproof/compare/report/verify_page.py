@@ -215,8 +215,51 @@ def verify_context(result):
         "horn_3d_rows": horn_3d_rows(result),
         "warnings": [str(w) for w in result.get("warnings") or []],
         "geometry": quantity_rows(result.get("geometry") or {}),
-        "solver": quantity_rows(result.get("solver") or {}),
+        "solver": quantity_rows({key: value for key, value in (result.get("solver") or {}).items()
+                                 if key not in SOLVER_KEYS_IN_OWN_TABLES}),
+        "grid_fit": grid_fit_table(result),
+        "refinement": refinement_text(result),
     }
+
+
+#: solver keys shown in their own tables (grid fit) or sentences (refinement), not as a dump
+SOLVER_KEYS_IN_OWN_TABLES = ("grid_fit", "nominal_cells_per_wavelength", "modelled_sizes_mm", "refinement")
+#: defining sizes in the order a reader expects them
+SIZE_ORDER = ("guide_a", "guide_b", "aperture_a", "aperture_b", "flare_length")
+SIZE_NAMES = {"guide_a": "a", "guide_b": "b", "aperture_a": "A", "aperture_b": "B", "flare_length": "L"}
+
+
+def grid_fit_table(result):
+    """{"sizes": [column names], "rows": [...]}: per rung, the nominal and fitted cells per
+    wavelength, the worst size residual and each defining size as modelled (residual)."""
+    fits = (result.get("solver") or {}).get("grid_fit") or []
+    if not fits:
+        return None
+    sizes = [name for name in SIZE_ORDER if any(name in (fit.get("sizes") or {}) for fit in fits)]
+    rows = []
+    for fit in fits:
+        cells = []
+        for name in sizes:
+            size = (fit.get("sizes") or {}).get(name)
+            cells.append(MISSING_VALUE if size is None else
+                         f"{number(size['modelled_mm'], 2)} ({size['cells']} cells, {number(size['residual_percent'], 2)} %)")
+        rows.append({"nominal": number(fit.get("nominal_cells_per_wavelength"), 1),
+                     "fitted": number(fit.get("cells_per_wavelength"), 2),
+                     "worst": number(fit.get("worst_residual_percent"), 2), "sizes": cells})
+    nominal = fits[0].get("sizes") or {}
+    headers = [f"{SIZE_NAMES[name]} = {number(nominal[name]['nominal_mm'], 2)} mm" if name in nominal else SIZE_NAMES[name]
+               for name in sizes]
+    return {"sizes": headers, "rows": rows}
+
+
+def refinement_text(result):
+    """One sentence on the refinement to a target uncertainty, or None when none was asked."""
+    refinement = (result.get("solver") or {}).get("refinement")
+    if not refinement:
+        return None
+    budget = refinement.get("budget_seconds")
+    return (f"Refinement to ±{number(refinement.get('target_uncertainty_db'), 2)} dB"
+            + ("" if budget is None else f" within {number(budget, 0)} s") + f": {refinement.get('stopped')}.")
 
 
 def floats(values):

@@ -207,3 +207,26 @@ def test_trade_words_and_one_missing_value_word(tmp_path):
     extra = text[text.index("id='extra-checks'"):]
     extra = extra[:extra.index("</table>")]
     assert "<td class='text'>S11</td>" in extra and extra.count("n/a") >= 3
+
+
+def test_grid_fit_is_a_table_not_a_dump(tmp_path):
+    # the grid fit of each rung (sim/grid_fit.py, stored by verify) is shown as a table of
+    # modelled sizes with their residuals; the solver table does not dump the nested record
+    from hornproof.analytic.geometry import HornGeometry
+    from hornproof.sim.grid_fit import fit_ladder
+
+    horn = HornGeometry("pyramidal", 22.86e-3, 10.16e-3, 80e-3, 60e-3, 70e-3)
+    fits = fit_ladder(horn, 10.5e9, 3, [16.9, 21.9, 28.5])
+    synthetic_result(tmp_path)
+    stored = json.loads((tmp_path / "result.json").read_text())
+    stored["solver"].update({"grid_fit": [fit.to_dict() for fit in fits],
+                             "nominal_cells_per_wavelength": [16.9, 21.9, 28.5],
+                             "refinement": {"target_uncertainty_db": 0.15, "budget_seconds": 300.0,
+                                            "stopped": "target reached: every checked figure decided"}})
+    (tmp_path / "result.json").write_text(json.dumps(stored))
+    text = open(report.build_report(tmp_path), encoding="utf-8").read()
+    assert "Grid-fitted rungs" in text and "b = 10.16 mm" in text
+    b_cells = {s.name: s for s in fits[0].sizes}["guide_b"]
+    assert f"{b_cells.modelled_m * 1e3:.2f} ({b_cells.cells} cells" in text
+    assert "nominal_mm" not in text and "residual_percent" not in text
+    assert "Refinement to ±0.15 dB within 300 s: target reached" in text
