@@ -27,8 +27,8 @@ EXIT_UNRESOLVED = 4
 EXIT_STATUS_HELP = f"""\
 exit status: {EXIT_AGREES} every check agrees · {EXIT_DISAGREES} a check disagrees (wins over unresolved) ·
 2 bad input · 3 the run failed · {EXIT_UNRESOLVED} no check disagrees but one is unresolved: its
-uncertainty is not confident (fewer than three rungs, a divergent ladder) or larger than the
-tolerance. The "ladder" column says which."""
+uncertainty is not confident (fewer than three rungs, a divergent or oscillatory ladder) or
+larger than the tolerance. The "ladder" column says which."""
 
 
 def setup_arguments(parser):

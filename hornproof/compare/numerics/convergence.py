@@ -352,7 +352,7 @@ class ConvergenceEstimate:
     @property
     def confident(self):
         """True when :func:`confident_uncertainty` accepts this estimate (a three-rung GCI with
-        an observed order in range, or the whole spread of a three-rung oscillatory ladder)."""
+        an observed order in range, or with Fs = 3 at the formal order when it is out of range)."""
         return confident_uncertainty(self)[0] is not None
 
     def to_dict(self):

@@ -83,12 +83,10 @@ def test_no_ladder_at_all():
     # divergent: spread 0.3 ≤ t used to read "agrees"; no bound at all now
     (DIVERGENT, H3, 0.1, "unresolved"),
     (DIVERGENT, H3, 5.0, "unresolved"),
-    # oscillatory, three rungs: confident with its whole spread 0.2 (twice Stern et al.'s half
-    # range); agrees within t + 0.2, disagrees beyond
-    (OSCILLATORY, H3, 0.1, "agrees"),
-    (OSCILLATORY, H3, 0.6, "agrees"),      # |d| − 0.2 = 0.4 ≤ 0.5
+    # oscillatory: never agrees; disagrees beyond its whole spread 0.2
+    (OSCILLATORY, H3, 0.1, "unresolved"),
+    (OSCILLATORY, H3, 0.6, "unresolved"),  # |d| − 0.2 = 0.4 ≤ 0.5
     (OSCILLATORY, H3, 1.0, "disagrees"),   # |d| − 0.2 = 0.8 > 0.5
-    (OSCILLATORY[1:], H3[1:], 0.1, "unresolved"),  # two rungs only: no confident number
     # two rungs: the Fs = 3 GCI 0.3 ≤ t used to read "agrees"
     (TWO_RUNGS[0], TWO_RUNGS[1], 0.1, "unresolved"),
     (TWO_RUNGS[0], TWO_RUNGS[1], 0.75, "unresolved"),  # |d| − 0.3 = 0.45 ≤ 0.5
@@ -100,7 +98,7 @@ def test_no_ladder_at_all():
 def test_each_ladder_gives_the_right_verdict(values, h, difference, expected):
     judged = judge(difference, 0.5, _estimate(values, h))
     assert judged["verdict"] == expected
-    assert judged["confident"] == (values is MONOTONE or values is OSCILLATORY)
+    assert judged["confident"] == (values is MONOTONE)
 
 
 def test_uncertainty_is_shown_even_when_not_confident():
@@ -110,13 +108,13 @@ def test_uncertainty_is_shown_even_when_not_confident():
     assert judged["reason"] == "two rungs"
 
 
-def test_an_oscillatory_ladder_is_bounded_by_its_whole_spread():
+def test_an_oscillatory_ladder_shows_its_spread_but_is_not_confident():
     judged = judge(0.1, 0.5, _estimate(OSCILLATORY))
-    assert judged["confident"] and judged["uncertainty"] == pytest.approx(0.2, abs=1e-12)
-    assert judged["reason"] == "oscillatory ladder, bounded by its whole spread"
-    # an outside term (power balance, grid residual) adds root-sum-square, it never removes
-    widened = judge(0.1, 0.5, _estimate(OSCILLATORY), extra=0.15)
-    assert widened["uncertainty"] == pytest.approx(0.25, abs=1e-12)
+    assert not judged["confident"] and judged["uncertainty"] == pytest.approx(0.2, abs=1e-12)
+    assert judged["reason"] == "oscillatory ladder" and judged["verdict"] == "unresolved"
+    # an outside term (power balance, grid residual) adds root-sum-square to what is shown
+    widened = judge(0.1, 0.5, _estimate(MONOTONE), extra=0.3)
+    assert widened["uncertainty"] == pytest.approx(math.hypot(0.125, 0.3), abs=1e-12)
 
 
 def test_s11_with_a_huge_uncertainty_is_unresolved():
