@@ -9,6 +9,7 @@ from ..jobs.messages import is_writer, say
 from ...errors import InputError
 from ..jobs.refine import RefinementGoal
 from ..jobs.verify import default_out_dir, verify_case
+from ..numerics.figures import METRICS
 from ..report.format import MISSING_VALUE
 from ..output.folders import check_output_folder
 from ..output.terminal import emit_result, safety_lines
@@ -39,7 +40,7 @@ def setup_arguments(parser):
                            out_help="output folder (default: results/<case>/<hash>)")
     parser.add_argument("--target-uncertainty", type=float, metavar="DB",
                         help="add finer rungs until every checked dB figure's uncertainty is at most DB "
-                             "and no checked figure is unresolved (default: the case's "
+                             "and no checked figure is unresolved, at most 3 rungs (default: the case's "
                              "fdtd.target_uncertainty_db, else the ladder as given)")
     parser.add_argument("--budget", type=float, metavar="SECONDS",
                         help="with refinement: stop before a rung that would take the whole ladder past "
@@ -65,13 +66,21 @@ def _number(value, width=8, digits=2, confident=True):
     return text.rjust(width)
 
 
+def check_label(name):
+    """Trade words for a check or metric name (``directivity_db`` -> "Directivity")."""
+    if name in METRICS:
+        return METRICS[name].label
+    return {"s11_db": "S11", "pattern_rms_h_plane": "Pattern RMS, H-plane",
+            "pattern_rms_e_plane": "Pattern RMS, E-plane"}.get(name, name.replace("_", " "))
+
+
 def format_verdicts(summary):
     """People's view of a verify run: one line per checked metric and frequency, each with its
     FDTD uncertainty (``?`` = not confident) and its ladder's health."""
     comparison = summary["comparison"]
     lines = [f"{summary['case']}: {summary.get('title') or ''}",
              f"  checked model: {comparison['model_checked']} against FDTD "
-             f"(grids {', '.join(f'{c:g}' for c in summary['solver']['cells_per_wavelength'])} cells per wavelength)",
+             f"(grids {', '.join(f'{c:.2f}' for c in summary['solver']['cells_per_wavelength'])} cells per wavelength)",
              f"  {'metric':<30} {'f GHz':>7} {'closed':>8} {'exact':>8} {'FDTD':>8} {'+-':>7} {'diff':>7} {'tol':>6}"
              f"  {'ladder':<18} verdict"]
     for metric in comparison["metrics"]:
@@ -91,10 +100,11 @@ def format_verdicts(summary):
     reasons = comparison.get("unresolved_reasons") or {}
     if comparison.get("unresolved_checks"):
         lines.append("  unresolved (exit status 4 unless a check disagrees): no confident uncertainty, or one "
-                     "larger than the tolerance; ? marks an uncertainty that is not confident")
+                     "larger than the tolerance; a '?' after an uncertainty marks one that is not confident")
         for name in comparison["unresolved_checks"]:
-            lines.append(f"    {name}: {'; '.join(reasons.get(name, [])) or 'see the table'}")
-        lines.append("  use more or finer grids (--cells-per-wavelength N1,N2,N3) to decide")
+            lines.append(f"    {check_label(name)}: {'; '.join(reasons.get(name, [])) or 'see the table'}")
+        lines.append("  to decide: finer rungs (--target-uncertainty DB adds them within --budget SECONDS), "
+                     "or your own ladder (--cells-per-wavelength N1,N2,N3)")
     lines.append(safety_lines())
     return "\n".join(lines)
 

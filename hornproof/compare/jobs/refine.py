@@ -13,6 +13,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from ...limits import MAX_CELLS_PER_WAVELENGTH
 from ...sim.estimate import available_memory_bytes, estimate_for_layout
 from ...sim.grid_fit import DEFAULT_RATIO, MIN_RATIO, fit_grid
 from ...sim.layout import plan_layout
@@ -21,6 +22,11 @@ from ..numerics.power_balance import POWER_BALANCE_FIGURES, power_balance_uncert
 from ..numerics.verdict import judge
 from .grid_plan import flared_plane, geometry_residual
 from .ladder import fdtd_figures, ladder_convergence, relative_cost
+
+
+#: most rungs one refinement adds (a target that finer grids do not reach — an oscillating
+#: ladder stays oscillating — must not run for hours without a budget; hornproof's limit)
+MAX_ADDED_RUNGS = 3
 
 
 @dataclass(frozen=True)
@@ -64,6 +70,8 @@ def open_figures(case, summary_models, sim_results, fits, tolerances, target_db)
 def next_rung(case, fits, goal, seconds_so_far, seconds_per_cost):
     """The fit of the next finer rung, or (None, reason) when the budget or memory forbids it."""
     finest = max(fit.cells_per_wavelength for fit in fits)
+    if finest * MIN_RATIO > MAX_CELLS_PER_WAVELENGTH:
+        return None, f"the next rung would pass hornproof's limit of {MAX_CELLS_PER_WAVELENGTH:g} cells per wavelength"
     fit = fit_grid(case.horn, float(np.max(case.frequencies)), int(case.fdtd.dims), finest * DEFAULT_RATIO,
                    plane=flared_plane(case), lowest=finest * MIN_RATIO)
     expected = relative_cost(fit.cells_per_wavelength, int(case.fdtd.dims)) * seconds_per_cost
@@ -88,6 +96,7 @@ def refine(case, summary_models, fits, sim_results, goal, run_rungs, log):
     from .verify import check_tolerances  # verify imports this module at its top
 
     fits, sim_results = list(fits), list(sim_results)
+    added = 0
     while True:
         finest = fdtd_figures(sim_results[int(np.argmax([fit.cells_per_wavelength for fit in fits]))])
         tolerances = check_tolerances(case, finest, int(case.fdtd.dims))
@@ -98,6 +107,8 @@ def refine(case, summary_models, fits, sim_results, goal, run_rungs, log):
         spent = [float(r.run.get("seconds_total") or 0.0) for r in sim_results]
         costs = [relative_cost(fit.cells_per_wavelength, int(case.fdtd.dims)) for fit in fits]
         fit, reason = next_rung(case, fits, goal, sum(spent), sum(spent) / max(sum(costs), 1e-30))
+        if fit is not None and added >= MAX_ADDED_RUNGS:
+            fit, reason = None, f"{added} rungs added, the most one refinement adds"
         if fit is None:
             names = ", ".join(metric for metric, _, _ in still_open)
             return fits, sim_results, f"stopped with {names} still open: {reason}"
@@ -105,3 +116,4 @@ def refine(case, summary_models, fits, sim_results, goal, run_rungs, log):
             f"{fit.cells_per_wavelength:.2f} cells per wavelength")
         sim_results += run_rungs([fit.cells_per_wavelength])
         fits.append(fit)
+        added += 1

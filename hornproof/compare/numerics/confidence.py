@@ -154,7 +154,8 @@ LADDER_LABELS = {"monotonic": "monotone", "oscillatory": "oscillatory", "diverge
 def ladder_health(estimate):
     """Short label of a figure's ladder for tables: ``"monotone"``, ``"oscillatory"``,
     ``"divergent"``, ``"converged"``, ``"2 rungs"``, ``"1 rung"``, ``"no ladder"``; a monotone
-    ladder whose observed order is out of range or missing reads ``"monotone, order ?"``."""
+    ladder whose observed order is out of range or missing reads ``"monotone, Fs = 3"`` (its
+    uncertainty is the conservative GCI at the formal order)."""
     if estimate is None:
         return "no ladder"
     status, flags, _, _, _, rungs = _estimate_fields(estimate)
@@ -162,5 +163,5 @@ def ladder_health(estimate):
         return "1 rung"
     label = LADDER_LABELS.get(status, status)
     if status == "monotonic" and {"order-out-of-range", "order-iteration-failed"} & flags:
-        label += ", order ?"
+        label += ", Fs = 3"
     return label

@@ -369,7 +369,7 @@ def plot_error_vs_parameter(parameter_values, phase_approximation_error, apertur
     return save_figure(fig, path_stem)
 
 
-def plot_s11(frequencies, s11_db, path_stem, *, case_title="", guide_level_db=-10.0):
+def plot_s11(frequencies, s11_db, path_stem, *, case_title="", guide_level_db=-10.0, uncertainty_db=None):
     """Reflection coefficient magnitude |S11| (dB) over the band, FDTD.
 
     Parameters
@@ -382,6 +382,9 @@ def plot_s11(frequencies, s11_db, path_stem, *, case_title="", guide_level_db=-1
     case_title : str
     guide_level_db : float or None
         A horizontal guide line (default −10 dB, a common matching target — common practice).
+    uncertainty_db : array_like [nf], optional
+        The ladder's uncertainty of |S11| (dB), drawn as error bars (NaN: none); S11 converges
+        worst of all figures, so it is never drawn without it when a ladder gave one.
 
     Returns
     -------
@@ -394,6 +397,11 @@ def plot_s11(frequencies, s11_db, path_stem, *, case_title="", guide_level_db=-1
     fig, ax = new_figure(height=3.8)
     ax.plot(f / GHZ, s, "-o", color=MODEL_COLOURS["fdtd"], markersize=4, linewidth=1.6,
             label="|S11| at the feed guide, FDTD (Meep)")
+    if uncertainty_db is not None:
+        u = float_array(uncertainty_db, "uncertainty_db", f.shape)
+        if np.any(np.isfinite(u)):
+            ax.errorbar(f / GHZ, s, yerr=np.where(np.isfinite(u), u, 0.0), fmt="none", color=MODEL_COLOURS["fdtd"],
+                        capsize=3, linewidth=1, label="± numerical uncertainty (grid ladder)")
     if guide_level_db is not None:
         ax.axhline(guide_level_db, color=TOLERANCE_COLOUR, linestyle="-.", linewidth=1.1,
                    label=minus_sign(f"{guide_level_db:g} dB guide line"))

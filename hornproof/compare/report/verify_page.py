@@ -60,7 +60,9 @@ def ladder_text(row, fallback=MISSING_VALUE):
     label, reason = row.get("ladder"), row.get("uncertainty_reason")
     if not label:
         return fallback
-    return f"{label}: {reason}" if reason else str(label)
+    if not reason or reason.replace(" ladder", "") == label:
+        return str(label)  # "oscillatory: oscillatory ladder" says it twice
+    return f"{label}: {reason}"
 
 
 def verdict_rows(comparison):
@@ -180,8 +182,10 @@ def figure_captions(result):
     captions["directivity_vs_frequency"] = (
         f"{quantity} over the band" + ("; bars: FDTD numerical uncertainty — solid with filled markers where it "
                                         "is a confident GCI, dashed with hollow markers where the ladder gives "
-                                        "no confident uncertainty (those verdicts are unresolved)." if has_bars else "."))
-    captions["s11"] = "Input reflection |S11| (dB) at the feed guide, FDTD model."
+                                        "no confident uncertainty (such a row can only disagree beyond the "
+                                        "ladder's spread, else it is unresolved)." if has_bars else "."))
+    captions["s11"] = ("Input reflection |S11| (dB) at the feed guide, FDTD model, with the grid ladder's "
+                       "uncertainty as bars where the ladder gave one (S11 converges worst of all figures).")
     captions["model"] = "The modelled metal on the finest grid, as the FDTD solver sees it."
     convergence = (result.get("comparison") or {}).get("convergence") or {}
     estimates = convergence.get("estimates") or []
@@ -236,8 +240,9 @@ def grid_fit_table(result):
     if not fits:
         return None
     sizes = [name for name in SIZE_ORDER if any(name in (fit.get("sizes") or {}) for fit in fits)]
+    walls = (result.get("solver") or {}).get("wall_thickness_modelled_mm") or []
     rows = []
-    for fit in fits:
+    for index, fit in enumerate(fits):
         cells = []
         for name in sizes:
             size = (fit.get("sizes") or {}).get(name)
@@ -245,7 +250,8 @@ def grid_fit_table(result):
                          f"{number(size['modelled_mm'], 2)} ({size['cells']} cells, {number(size['residual_percent'], 2)} %)")
         rows.append({"nominal": number(fit.get("nominal_cells_per_wavelength"), 1),
                      "fitted": number(fit.get("cells_per_wavelength"), 2),
-                     "worst": number(fit.get("worst_residual_percent"), 2), "sizes": cells})
+                     "worst": number(fit.get("worst_residual_percent"), 2), "sizes": cells,
+                     "wall": number(walls[index], 2) if isinstance(walls, list) and index < len(walls) else MISSING_VALUE})
     nominal = fits[0].get("sizes") or {}
     headers = [f"{SIZE_NAMES[name]} = {number(nominal[name]['nominal_mm'], 2)} mm" if name in nominal else SIZE_NAMES[name]
                for name in sizes]
@@ -292,7 +298,9 @@ def render_missing_result_figures(folder, result):
                 unit=unit, quantity="2D directivity" if unit == "dB" else "Directivity")
     s11 = models.get("fdtd", {}).get("s11_db")
     if s11 is not None and not (folder / "s11.png").exists():
-        plots.plot_s11(frequencies, floats(s11), folder / "s11", case_title=title)
+        stored = (models.get("fdtd", {}).get("uncertainty") or {}).get("s11_db")
+        plots.plot_s11(frequencies, floats(s11), folder / "s11", case_title=title,
+                       uncertainty_db=None if stored is None else floats(stored))
     convergence = (result.get("comparison") or {}).get("convergence")
     if convergence and not (folder / "convergence_ladder.png").exists():
         try:

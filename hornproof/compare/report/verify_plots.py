@@ -67,4 +67,6 @@ def write_verify_plots(folder, case, summary, models, sim_results, ladder, conve
         plots.plot_convergence_ladder(ladder, column, folder / "convergence_ladder", estimate=estimates[key][centre],
                                       quantity=quantity, unit=unit, frequency=freqs[centre], case_title=title)
     if fdtd.get("s11_db") is not None:
-        plots.plot_s11(freqs, [np.nan if v is None else v for v in fdtd["s11_db"]], folder / "s11", case_title=title)
+        plots.plot_s11(freqs, [np.nan if v is None else v for v in fdtd["s11_db"]], folder / "s11", case_title=title,
+                       uncertainty_db=[np.nan if v is None else v
+                                       for v in (fdtd.get("uncertainty") or {}).get("s11_db", [None] * len(freqs))])

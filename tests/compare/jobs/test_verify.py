@@ -116,7 +116,7 @@ def test_unresolved_only_run_exits_4(tmp_path, capsys):
     assert comparison["unresolved_reasons"]["directivity_2d_db"] == ["two rungs"]
     # the terminal table shows the ladder column and every uncertainty, marked not confident
     assert "ladder" in out and "2 rungs" in out and "?" in out
-    assert "directivity_2d_db: two rungs" in out
+    assert "2D directivity: two rungs" in out  # trade words, not the result.json key
 
 
 def test_a_failing_run_leaves_no_result_folder(tmp_path, monkeypatch):

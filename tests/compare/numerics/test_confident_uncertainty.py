@@ -66,7 +66,7 @@ def test_out_of_range_order_is_confident_only_through_the_conservative_gci():
     value, reason = confident_uncertainty(estimate)
     assert value == pytest.approx(estimate["uncertainty"]) and "5.00 out of range" in reason
     assert "Fs = 3" in reason and estimate["safety_factor"] == 3.0
-    assert ladder_health(estimate) == "monotone, order ?"
+    assert ladder_health(estimate) == "monotone, Fs = 3"
     assert disagreement_bound(estimate) == pytest.approx(estimate["uncertainty"])
 
 
