@@ -46,7 +46,7 @@ def format_table(summary):
     lines += ["", "  cf = closed form (quadratic phase, Fresnel integrals); ex = exact path length from the apex;",
               "  diff = closed form minus exact phase (the phase-approximation error)."]
     if two_d:
-        lines.append("  D2 = 2D, dB per unit length: the 2D directivity of the flared plane alone (not dBi).")
+        lines.append("  D2 = 2D model, dB (a per-unit-length ratio): the 2D directivity of the flared plane alone (not dBi).")
     lines += horn_3d_lines(summary)
     lines.append(safety_lines())
     for w in summary.get("warnings", []):
@@ -62,7 +62,7 @@ def horn_3d_lines(summary):
         return []
     closed_form, exact_phase = block["closed_form"], block["exact_phase"]
     lines = ["", "  The 3D horn, dBi (closed-form and exact-phase aperture models), beside the 2D model "
-                 "(2D, dB per unit length):",
+                 "(2D model, dB (a per-unit-length ratio)):",
              f"  {'f GHz':>7} {'D dBi cf':>10} {'D dBi ex':>10} {'diff dB':>8}"]
     for i, frequency in enumerate(summary["frequencies_ghz"]):
         closed, exact = closed_form["directivity_dbi"][i], exact_phase["directivity_dbi"][i]

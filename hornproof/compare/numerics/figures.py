@@ -70,6 +70,6 @@ CHECK_TOLERANCE_KEYS = tuple(CHECK_METRICS) + ("pattern_rms_db", "s11_db")
 
 
 def directivity_key(dims):
-    """The directivity figure of a model of ``dims`` dimensions: dBi in 3D, dB per unit length
+    """The directivity figure of a model of ``dims`` dimensions: dBi in 3D, dB in 2D (a ratio of per-unit-length quantities)
     (``directivity_2d_db``) in 2D."""
     return "directivity_2d_db" if int(dims) == 2 else "directivity_dbi"

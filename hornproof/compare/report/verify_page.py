@@ -138,7 +138,7 @@ def pattern_error_rows(result):
 
 
 def horn_3d_rows(result):
-    """A 2D case's directivity per frequency: the 2D model's (dB per unit length: closed form,
+    """A 2D case's directivity per frequency: the 2D model's (dB, a ratio of per-unit-length quantities: closed form,
     exact phase, FDTD) beside the 3D horn's aperture models (dBi, ``result.json``'s ``horn_3d``
     block). Empty for a 3D case."""
     block = result.get("horn_3d") or {}

@@ -64,7 +64,7 @@ def test_predict_terminal_labels_2d_and_3d():
     case = load_case(DEMO)
     summary, _ = predict_case(case)
     text = format_table(summary)
-    assert "2D, dB per unit length" in text and "The 3D horn, dBi" in text
+    assert "2D model, dB (a per-unit-length ratio)" in text and "The 3D horn, dBi" in text
     three_d = summary["horn_3d"]["closed_form"]["directivity_dbi"]
     tail = text[text.index("The 3D horn, dBi"):]
     for value in three_d:
@@ -98,7 +98,7 @@ def test_verify_of_the_demo_shows_the_3d_horn(tmp_path):
     np.testing.assert_allclose(stored["horn_3d"]["closed_form"]["directivity_dbi"],
                                direct["closed_form"].directivity_dbi, atol=1e-9)
     text = format_verdicts(summary)
-    assert "The 3D horn, dBi" in text and "2D, dB per unit length" in text
+    assert "The 3D horn, dBi" in text and "2D model, dB (a per-unit-length ratio)" in text
     html = (tmp_path / "out" / "report.html").read_text()
     assert "id='horn-3d'" in html and "3D horn (dBi)" in html
     assert f"{direct['exact_phase'].directivity_dbi[0]:.2f}" in html
