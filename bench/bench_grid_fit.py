@@ -30,7 +30,7 @@ REPO = Path(__file__).resolve().parents[1]
 sys.path.insert(0, str(REPO))
 
 from hornproof.compare.case.casefile import load_case  # noqa: E402
-from hornproof.compare.jobs.grid_plan import fitted_ladder, flared_plane  # noqa: E402
+from hornproof.compare.jobs.grid_plan import case_plane, fitted_ladder  # noqa: E402
 from hornproof.sim.grid_fit import default_ladder, whole_cells  # noqa: E402
 from hornproof.units import SPEED_OF_LIGHT  # noqa: E402
 
@@ -46,7 +46,7 @@ def residual_table():
     for path in sorted((REPO / "cases").glob("*.toml")):
         case = load_case(path)
         f_max = float(np.max(case.frequencies))
-        default = default_ladder(case.horn, f_max, case.fdtd.dims, plane=flared_plane(case))
+        default = default_ladder(case.horn, f_max, case.fdtd.dims, plane=case_plane(case))
         for label, nominal in (("case", case.fdtd.cells_per_wavelength), ("default", default)):
             fits = fitted_ladder(case, nominal)
             rungs = ", ".join(f"{f.nominal_cells_per_wavelength:.1f} -> {f.cells_per_wavelength:.2f} "

@@ -96,6 +96,14 @@ class GridFit:
         }
 
 
+def flared_plane(horn, dims):
+    """The plane a 2D model of ``horn`` keeps: "h" for an H-plane sectoral horn, "e" for an
+    E-plane one; None in 3D (``sim.layout`` refuses a 2D pyramidal model)."""
+    if int(dims) == 3:
+        return None
+    return "h" if horn.kind == "h-sectoral" else "e"
+
+
 def defining_sizes(horn, dims, plane=None):
     """The sizes the model must reproduce: name -> (metres, "width" or "length").
 

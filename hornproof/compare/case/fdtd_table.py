@@ -8,7 +8,7 @@ arguments, and warns when a grid is too coarse for the narrowest opening of the 
 import math
 
 from ...limits import MAX_CELLS_PER_WAVELENGTH, MIN_CELLS_ACROSS_OPENING, MIN_CELLS_PER_WAVELENGTH
-from ...sim.grid_fit import default_ladder
+from ...sim.grid_fit import default_ladder, flared_plane
 from ...sim.settings import FdtdSettings
 from ...units import GHZ, MM, SPEED_OF_LIGHT
 from .values import (
@@ -41,8 +41,8 @@ def read_fdtd(table, horn, f_max):
         fields["cells_per_wavelength"] = read_cells_ladder(table["cells_per_wavelength"],
                                                            "fdtd.cells_per_wavelength")
     else:
-        plane = None if fields["dims"] == 3 else ("h" if horn.kind == "h-sectoral" else "e")
-        fields["cells_per_wavelength"] = tuple(default_ladder(horn, f_max, fields["dims"], plane=plane))
+        fields["cells_per_wavelength"] = tuple(default_ladder(horn, f_max, fields["dims"],
+                                                              plane=flared_plane(horn, fields["dims"])))
     fields["pml_wavelengths"] = read_positive(table, "pml_wavelengths", "fdtd",
                                               unit="wavelengths",
                                               default=defaults.pml_wavelengths)

@@ -16,7 +16,7 @@ import math
 import numpy as np
 
 from ...analytic.predict import predict
-from ...sim.grid_fit import fit_ladder
+from ...sim.grid_fit import fit_ladder, flared_plane
 
 #: figures whose geometry-residual uncertainty the aperture model can give
 GEOMETRY_FIGURES = ("directivity_dbi", "directivity_2d_db", "gain_dbi", "realized_gain_dbi", "hpbw_h_deg",
@@ -26,17 +26,15 @@ FOLLOWS_DIRECTIVITY = {"gain_dbi": "directivity_dbi", "realized_gain_dbi": "dire
                        "gain_2d_db": "directivity_2d_db", "realized_gain_2d_db": "directivity_2d_db"}
 
 
-def flared_plane(case):
-    """"h" or "e" for a 2D model (the plane it keeps), None in 3D."""
-    if int(case.fdtd.dims) == 3:
-        return None
-    return "h" if case.horn.kind == "h-sectoral" else "e"
+def case_plane(case):
+    """"h" or "e" for a 2D model of ``case`` (the plane it keeps), None in 3D."""
+    return flared_plane(case.horn, case.fdtd.dims)
 
 
 def fitted_ladder(case, nominal_ladder):
     """The grid fits of ``nominal_ladder`` (cells per wavelength at f_max) for ``case``."""
     return fit_ladder(case.horn, float(np.max(case.frequencies)), int(case.fdtd.dims), list(nominal_ladder),
-                      plane=flared_plane(case))
+                      plane=case_plane(case))
 
 
 def modelled_horn(horn, fit):

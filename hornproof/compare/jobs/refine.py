@@ -20,7 +20,7 @@ from ...sim.layout import plan_layout
 from ..numerics.figures import METRICS
 from ..numerics.power_balance import POWER_BALANCE_FIGURES, power_balance_uncertainty_db
 from ..numerics.verdict import judge
-from .grid_plan import flared_plane, geometry_residual
+from .grid_plan import case_plane, geometry_residual
 from .ladder import fdtd_figures, ladder_convergence, relative_cost
 
 
@@ -73,7 +73,7 @@ def next_rung(case, fits, goal, seconds_so_far, seconds_per_cost):
     if finest * MIN_RATIO > MAX_CELLS_PER_WAVELENGTH:
         return None, f"the next rung would pass hornproof's limit of {MAX_CELLS_PER_WAVELENGTH:g} cells per wavelength"
     fit = fit_grid(case.horn, float(np.max(case.frequencies)), int(case.fdtd.dims), finest * DEFAULT_RATIO,
-                   plane=flared_plane(case), lowest=finest * MIN_RATIO)
+                   plane=case_plane(case), lowest=finest * MIN_RATIO)
     expected = relative_cost(fit.cells_per_wavelength, int(case.fdtd.dims)) * seconds_per_cost
     if goal.budget_seconds is not None and seconds_so_far + expected > goal.budget_seconds:
         return None, (f"the next rung ({fit.cells_per_wavelength:.2f} cells per wavelength) would take about "

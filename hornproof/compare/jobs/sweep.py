@@ -31,7 +31,7 @@ from ...atomic import write_text_atomic
 from ...errors import InputError
 from ...hashing import content_sha256
 from ...sim import run as fdtd_run
-from ...sim.grid_fit import fit_ladder
+from ...sim.grid_fit import fit_ladder, flared_plane
 from ...sim.solver import meep_version
 from ...version import build_version
 from ..numerics.convergence import grid_convergence
@@ -92,8 +92,8 @@ def point_key(horn, frequencies, settings, ladder):
 def run_point(horn, frequencies, settings, ladder, force):
     """FDTD figures of one sweep point on every grid of ``ladder`` (each rung fitted to this
     point's horn, :func:`hornproof.sim.grid_fit.fit_ladder`), JSON-ready."""
-    plane = None if int(settings.dims) == 3 else ("h" if horn.kind == "h-sectoral" else "e")
-    fits = fit_ladder(horn, float(np.max(frequencies)), int(settings.dims), list(ladder), plane=plane)
+    fits = fit_ladder(horn, float(np.max(frequencies)), int(settings.dims), list(ladder),
+                      plane=flared_plane(horn, settings.dims))
     ladder = [fit.cells_per_wavelength for fit in fits]
     results = [fdtd_run.simulate(horn, frequencies, settings, float(c), force=force) for c in ladder]
     figures = [fdtd_figures(r) for r in results]

@@ -20,7 +20,7 @@ The standard file stems that :mod:`hornproof.compare.report.html` looks for are 
 import numpy as np
 
 from ...units import GHZ
-from .figure_style import (MODEL_COLOURS, MODEL_LABELS, MODEL_LINESTYLES, TOLERANCE_COLOUR, TOTAL_ERROR_COLOUR,
+from .figure_style import (MODEL_COLOURS, MODEL_LABELS, MODEL_LINESTYLES, TOLERANCE_COLOUR,
                            float_array, legend_below, lower_first, minus_sign, new_figure, save_figure,
                            set_title)
 
@@ -293,79 +293,6 @@ def plot_convergence_ladder(cells_per_wavelength, values, path_stem, *, estimate
     at = f" at {frequency / GHZ:.3f} GHz" if frequency is not None else ""
     set_title(ax, case_title, f"Grid convergence of {lower_first(quantity)}{at}\n{status_line}")
     legend_below(ax)
-    return save_figure(fig, path_stem)
-
-
-def plot_error_vs_parameter(parameter_values, phase_approximation_error, aperture_model_error,
-                            path_stem, *, total_error=None, phase_approximation_uncertainty=0.0,
-                            aperture_model_uncertainty=None, total_uncertainty=None, tolerance=None,
-                            breakdown=None, parameter_label="Flare half-angle", parameter_unit="deg",
-                            error_label="Directivity error", error_unit="dB", case_title=""):
-    """Magnitude of the model errors over a sweep, with bands, tolerance and breakdown.
-
-    Parameters
-    ----------
-    parameter_values : array_like [n]
-        Swept parameter, in ``parameter_unit`` (default: flare half-angle in degrees).
-    phase_approximation_error, aperture_model_error, total_error : array_like [n] or None
-        Closed form − exact phase, exact phase − FDTD and closed form − FDTD, figure units;
-        |error| is drawn. None omits a curve.
-    path_stem : str
-    phase_approximation_uncertainty, aperture_model_uncertainty, total_uncertainty : float or array_like [n]
-        Numerical uncertainty of each error (band ±, clipped at 0).
-    tolerance : float, optional
-        Accepted |error|, drawn as a horizontal line.
-    breakdown : dict, optional
-        ``{"phase_approximation": value, "aperture_model": value, "total": value}`` from
-        :func:`hornproof.compare.numerics.verdict.breakdown_threshold`; a number draws a vertical
-        line (its value in the legend, one decimal), ``None`` / ``"below range"`` are written in
-        the legend.
-    parameter_label, parameter_unit, error_label, error_unit, case_title : str
-
-    Returns
-    -------
-    tuple of str
-    """
-    x = axis_values(parameter_values, "parameter_values")
-    order = np.argsort(x)
-    x = x[order]
-    fig, ax = new_figure(height=4.8)
-    series = (
-        ("phase_approximation", phase_approximation_error, phase_approximation_uncertainty, "closed_form",
-         "Phase-approximation error |closed form − exact phase|", "phase approximation"),
-        ("aperture_model", aperture_model_error, aperture_model_uncertainty, "fdtd",
-         "Aperture-model error |exact phase − FDTD|", "aperture model"),
-        ("total", total_error, total_uncertainty, "total",
-         "Total error |closed form − FDTD|", "total"),
-    )
-    breakdown = breakdown or {}
-    for key, err, unc, colour_key, label, name in series:
-        if err is None:
-            continue
-        e = np.abs(float_array(err, key + "_error", order.shape))[order]
-        colour = TOTAL_ERROR_COLOUR if colour_key == "total" else MODEL_COLOURS[colour_key]
-        style = ":" if key == "total" else "-"
-        ax.plot(x, e, style, marker="o", color=colour, markersize=4, linewidth=1.5, label=label)
-        if unc is not None:
-            u = np.broadcast_to(np.asarray(unc, dtype=float), order.shape)[order]
-            if np.any(u > 0):
-                ax.fill_between(x, np.clip(e - u, 0, None), e + u, color=colour, alpha=0.12,
-                                linewidth=0, label=label.split(" |")[0] + ": numerical uncertainty (±)")
-        where = breakdown.get(key)
-        if isinstance(where, (int, float)) and np.isfinite(where):
-            ax.axvline(where, color=colour, linestyle=(0, (1, 2)), linewidth=1.6,
-                       label=f"Breakdown of the {name}: {where:.1f} {parameter_unit}")
-        elif key in breakdown:
-            text = "beyond tolerance from the first value" if where == "below range" else "none in range"
-            ax.plot([], [], " ", label=f"Breakdown of the {name}: {text}")
-    if tolerance is not None:
-        ax.axhline(float(tolerance), color=TOLERANCE_COLOUR, linestyle="-.", linewidth=1.2,
-                   label=f"Tolerance {float(tolerance):g} {error_unit}")
-    ax.set_ylim(bottom=0.0)
-    ax.set_xlabel(f"{parameter_label} ({parameter_unit})")
-    ax.set_ylabel(f"|{error_label}| ({error_unit})")
-    set_title(ax, case_title, f"Model error against {lower_first(parameter_label)}")
-    legend_below(ax, ncol=1)
     return save_figure(fig, path_stem)
 
 

@@ -20,7 +20,7 @@
 If ``error_vs_parameter.png`` is missing it is drawn from these arrays.
 """
 
-from . import plots
+from .sweep_plots import plot_error_vs_parameter
 from .format import MISSING_VALUE, number, quantity_rows, step_decimals, unit_decimals
 from .verify_page import floats
 
@@ -113,7 +113,7 @@ def render_missing_sweep_figure(folder, sweep):
         return None if data is None else floats(data)
 
     figure = sweep.get("figure", {}) or {}
-    plots.plot_error_vs_parameter(
+    plot_error_vs_parameter(
         floats(values), array(errors, "phase_approximation"), array(errors, "aperture_model"), path,
         total_error=array(errors, "total"),
         phase_approximation_uncertainty=array(uncertainties, "phase_approximation") or 0.0,

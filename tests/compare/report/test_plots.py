@@ -15,7 +15,7 @@ import numpy as np
 import pytest
 
 from hornproof.compare.numerics import convergence, verdict
-from hornproof.compare.report import plots
+from hornproof.compare.report import plots, sweep_plots
 
 PNG_SIGNATURE = b"\x89PNG\r\n\x1a\n"  # PNG specification (ISO/IEC 15948), file signature
 
@@ -92,7 +92,7 @@ def test_error_vs_parameter_with_breakdown(tmp_path):
     # |phase| = 0.002 θ² crosses 0.5 at θ = sqrt(250) = 15.8 deg (between samples 14 and 16)
     assert brk["phase_approximation"] == pytest.approx(np.sqrt(250), abs=0.2)
     assert brk["aperture_model"] is None
-    check_pair(plots.plot_error_vs_parameter(
+    check_pair(sweep_plots.plot_error_vs_parameter(
         angle, phase, aperture, tmp_path / "error_vs_parameter",
         phase_approximation_uncertainty=0.0, aperture_model_uncertainty=u, tolerance=0.5,
         breakdown=brk, case_title="Synthetic flare sweep"))
