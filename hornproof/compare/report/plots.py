@@ -332,7 +332,8 @@ def plot_s11(frequencies, s11_db, path_stem, *, case_title="", guide_level_db=-1
     if guide_level_db is not None:
         ax.axhline(guide_level_db, color=TOLERANCE_COLOUR, linestyle="-.", linewidth=1.1,
                    label=minus_sign(f"{guide_level_db:g} dB guide line"))
-    finite = s[np.isfinite(s)]
+    lowest = s if uncertainty_db is None else s - np.nan_to_num(float_array(uncertainty_db, "uncertainty_db", f.shape))
+    finite = lowest[np.isfinite(lowest)]  # the axis holds the error bars too
     low = min(finite.min() if finite.size else -30.0, guide_level_db or 0.0)
     ax.set_ylim(low - 5.0, 0.0)
     if f.size == 1:
