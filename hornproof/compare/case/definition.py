@@ -7,6 +7,7 @@ is part of the hashed definition.
 
 from ...hashing import content_sha256
 from ...sim.settings import FdtdSettings
+from ..numerics.metrics import band_centre_index
 from .band_table import band_frequencies, check_band_against_guide, guide_warnings, read_band
 from .checks_table import read_checks
 from .fdtd_table import grid_warnings, read_fdtd
@@ -56,7 +57,8 @@ def _validated_fields(path, raw, tier, cells_override):
     fdtd_fields, quick_2d = read_fdtd(read_table(raw, "fdtd", required=False), horn,
                                       float(max(band_frequencies(band))))
     checks, check_model = read_checks(read_table(raw, "checks", required=False))
-    sweep = read_sweep(read_table(raw, "sweep", required=False), horn, fdtd_fields)
+    sweep = read_sweep(read_table(raw, "sweep", required=False), horn, fdtd_fields,
+                       _centre_frequency(band_frequencies(band)))
     tiers = read_tiers(read_table(raw, "tiers", required=False), horn, band, fdtd_fields,
                        quick_2d)
 
@@ -78,13 +80,18 @@ def _validated_fields(path, raw, tier, cells_override):
                 guide_warnings(band, frequencies, horn)
                 + grid_warnings(horn, frequencies, fdtd.dims, fdtd.cells_per_wavelength,
                                 _cells_key(tier, cells_override))
-                + (grid_warnings(horn, frequencies, sweep.dims, (sweep.cells_per_wavelength,),
-                                 "sweep.cells_per_wavelength") if sweep else [])]
+                + (grid_warnings(horn, frequencies, sweep.dims, sweep.cells_per_wavelength,
+                                 "sweep.cells_per_wavelength") if sweep and sweep.cells_per_wavelength else [])]
     return dict(path=path, name=path.stem, title=title, horn=horn, frequencies=frequencies,
                 fdtd=fdtd, checks=checks, check_model=check_model, sweep=sweep, tiers=tiers,
                 sha256=_variant_sha256(raw, tier, cells_override),
                 warnings=tuple(dict.fromkeys(warnings)), raw=raw, tier=tier,
                 cells_override=tuple(cells_override) if cells_override is not None else None)
+
+
+def _centre_frequency(frequencies):
+    """The band frequency a sweep compares at (``numerics.metrics.band_centre_index``), Hz."""
+    return float(frequencies[band_centre_index(frequencies)])
 
 
 def _variant_sha256(raw, tier, cells_override):

@@ -23,7 +23,7 @@ from ..numerics.verdict import comparison_block, judge
 from ..output.folders import publish_folder
 from ..output.json_document import jsonable
 from .ladder import FORMAL_ORDER, fdtd_figures, ladder_convergence, run_fdtd_ladder, solver_block, solver_warnings
-from .grid_plan import combine_uncertainty, fitted_ladder, geometry_residual
+from .grid_plan import combine_uncertainty, fitted_ladder, geometry_residual, ladder_wall_thickness
 from .messages import is_writer, say
 from .predict import predict_case
 from .refine import RefinementGoal, refine
@@ -253,6 +253,47 @@ def comparison(case, summary_models, models, sim_results, ladder, convergence):
     return block
 
 
+def evaluate_case(case, *, force=False, ladder=None, progress=None, goal=None, log=say):
+    """Both analytic models, the FDTD ladder and the comparison of ``case``; writes nothing.
+
+    The computing half of :func:`verify_case` (which adds the result folder); a sweep point is
+    this evaluation of the point's horn, so the two give the same figures and uncertainties.
+
+    Returns
+    -------
+    (dict, dict, list, list, tuple, list)
+        The ``hornproof.result/1`` summary (JSON-ready), the analytic ``ModelResult``s, the
+        ``SimResult`` of every rung, the ladder (cells per wavelength, as fitted), the ladder's
+        convergence (uncertainty, estimates, values) and the grid fits.
+    """
+    started = time.monotonic()
+    fits = fitted_ladder(case, [float(c) for c in (ladder or case.fdtd.cells_per_wavelength)])
+    ladder = [fit.cells_per_wavelength for fit in fits]
+    summary, models = predict_case(case)
+    wall = ladder_wall_thickness(case, ladder)
+    sim_results = run_fdtd_ladder(case, ladder, force=force, progress=progress, log=log, wall=wall)
+    goal = goal or case_goal(case)
+    stop_reason = None
+    if goal is not None:
+        fits, sim_results, stop_reason = refine(
+            case, summary["models"], fits, sim_results, goal,
+            lambda rungs: run_fdtd_ladder(case, rungs, force=force, progress=progress, log=log, wall=wall), log)
+        log(f"hornproof: {stop_reason}")
+        ladder = [fit.cells_per_wavelength for fit in fits]
+    summary["models"]["fdtd"], convergence = fdtd_model_block(case, sim_results, ladder,
+                                                              geometry_residual(case, fits))
+    summary["comparison"] = comparison(case, summary["models"], models, sim_results, ladder, convergence)
+    summary["solver"] = solver_block(case, sim_results, ladder, time.monotonic() - started)
+    summary["solver"]["nominal_cells_per_wavelength"] = [fit.nominal_cells_per_wavelength for fit in fits]
+    summary["solver"]["grid_fit"] = [fit.to_dict() for fit in fits]
+    summary["solver"]["wall_thickness_ladder_mm"] = wall * 1e3
+    if goal is not None:
+        summary["solver"]["refinement"] = {"target_uncertainty_db": goal.target_db,
+                                           "budget_seconds": goal.budget_seconds, "stopped": stop_reason}
+    summary["warnings"] = list(summary.get("warnings", [])) + solver_warnings(sim_results, ladder)
+    return jsonable(summary), models, sim_results, ladder, convergence, fits
+
+
 def verify_case(case, out_dir=None, *, force=False, ladder=None, progress=None, goal=None):
     """Run the main job on ``case`` and write its result folder.
 
@@ -278,30 +319,9 @@ def verify_case(case, out_dir=None, *, force=False, ladder=None, progress=None, 
         The ``hornproof.result/1`` summary (also written as ``result.json``).
     """
     started = time.monotonic()
-    fits = fitted_ladder(case, [float(c) for c in (ladder or case.fdtd.cells_per_wavelength)])
-    ladder = [fit.cells_per_wavelength for fit in fits]
     out_dir = Path(out_dir) if out_dir is not None else default_out_dir(case)
-    summary, models = predict_case(case)
-    sim_results = run_fdtd_ladder(case, ladder, force=force, progress=progress)
-    goal = goal or case_goal(case)
-    stop_reason = None
-    if goal is not None:
-        fits, sim_results, stop_reason = refine(
-            case, summary["models"], fits, sim_results, goal,
-            lambda rungs: run_fdtd_ladder(case, rungs, force=force, progress=progress), say)
-        say(f"hornproof: {stop_reason}")
-        ladder = [fit.cells_per_wavelength for fit in fits]
-    summary["models"]["fdtd"], convergence = fdtd_model_block(case, sim_results, ladder,
-                                                              geometry_residual(case, fits))
-    summary["comparison"] = comparison(case, summary["models"], models, sim_results, ladder, convergence)
-    summary["solver"] = solver_block(case, sim_results, ladder, time.monotonic() - started)
-    summary["solver"]["nominal_cells_per_wavelength"] = [fit.nominal_cells_per_wavelength for fit in fits]
-    summary["solver"]["grid_fit"] = [fit.to_dict() for fit in fits]
-    if goal is not None:
-        summary["solver"]["refinement"] = {"target_uncertainty_db": goal.target_db,
-                                           "budget_seconds": goal.budget_seconds, "stopped": stop_reason}
-    summary["warnings"] = list(summary.get("warnings", [])) + solver_warnings(sim_results, ladder)
-    summary = jsonable(summary)
+    summary, models, sim_results, ladder, convergence, _ = evaluate_case(
+        case, force=force, ladder=ladder, progress=progress, goal=goal)
     image = None
     try:
         image = draw_model_image(case, max(ladder), Path(out_dir))
