@@ -19,7 +19,7 @@ import pytest
 
 from hornproof.compare.case.casefile import load_case
 from hornproof.compare.jobs.sweep import run_sweep, sweep_dims
-from hornproof.compare.jobs.sweep_point import point_case, point_figures, point_key, point_ladder
+from hornproof.compare.jobs.sweep_point import point_case, point_key, point_ladder
 from hornproof.compare.jobs.verify import evaluate_case
 
 ROOT = Path(__file__).resolve().parents[3]

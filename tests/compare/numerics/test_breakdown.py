@@ -82,3 +82,22 @@ def test_optimum_range_holds_every_value_that_could_be_the_peak():
     assert loose["range"] == [10.0, 30.0] and not loose["confident"]
     # a parabola through three samples symmetric about 20 peaks at 20 (exact)
     assert optimum_interval([10, 20, 30], [1, 2, 1], [0.0] * 3, None)["value"] == pytest.approx(20.0)
+
+
+def test_latest_edge_interpolates_the_sure_margin_by_hand():
+    # Worked by hand: angles 5, 10, 15, 20 deg; |error| 0.1, 0.3, 0.9, 1.5; u = b = 0.1;
+    # t 0.5 -> sure margins −0.5, −0.3, +0.3, +0.9; zero between 10 and 15 at 10 + 0.3/0.6·5 = 12.5.
+    x = [20.0, 5.0, 15.0, 10.0]          # unsorted on purpose
+    e = [-1.5, 0.1, 0.9, -0.3]
+    assert breakdown_interval(x, e, 0.1, 0.1, 0.5)["latest"] == pytest.approx(12.5)
+    # NaN samples are skipped: the crossing moves to the next usable pair (5 -> 15):
+    # margins −0.4, +0.5 -> 5 + 0.4/0.9·10 = 9.444…
+    assert analytic_breakdown([5.0, 10.0, 15.0], [0.1, NAN, 1.0], 0.5)["latest"] == pytest.approx(5 + 0.4 / 0.9 * 10)
+    # a large uncertainty keeps a large error from counting as surely past
+    assert breakdown_interval([5.0, 10.0, 15.0], [0.1, 0.9, 1.2], [0.1, 0.5, 0.8], [0.1, 0.5, 0.8],
+                              0.5)["latest"] is None
+    with pytest.raises(ValueError, match="values"):
+        analytic_breakdown([1.0, 1.0], [0.1, 0.2], 0.5)
+    # JSON nulls (None) read as unknown, never as an error
+    assert breakdown_interval([1.0, 2.0, 3.0], [0.1, None, 0.9], [0.0, 0.0, None], [0.0, 0.0, None],
+                              0.5)["latest"] is None
