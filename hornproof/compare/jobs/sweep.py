@@ -341,3 +341,34 @@ def fdtd_optimum(spec, base_horn, values, fdtd, confident, frequency):
                 phase_error_e_wl=float(horn.phase_error_e(frequency)))
     return best
 
+
+
+def _interval_figure(interval, first_value):
+    """(value, uncertainty) of a breakdown interval for regress: its midpoint and half-width;
+    "past tolerance from the start" is the first swept value (no width); a breakdown that holds
+    throughout or is unresolved has no value (None): a change of status is a regression."""
+    status = interval.get("status") if isinstance(interval, dict) else None
+    if status == "past tolerance from the start":
+        return float(first_value), 0.0
+    if status != "breaks":
+        return None, None
+    low = first_value if interval["earliest"] == "below range" else interval["earliest"]
+    high = interval["latest"]
+    return 0.5 * (low + high), 0.5 * (high - low)
+
+
+def regress_figures(document, frequency_index):
+    """The sweep's figures a nightly run compares with its baseline: each breakdown interval and
+    each model's optimum as a value ± half its width, named ``sweep_<what>_<unit>``."""
+    unit = document["parameter"]["unit"]
+    first = min(document["parameter"]["values"])
+    figures = {}
+    for kind, interval in (document.get("breakdown") or {}).items():
+        value, uncertainty = _interval_figure(interval, first)
+        figures[f"sweep_breakdown_{kind}_{unit}"] = {"value": value, "uncertainty": uncertainty}
+    for model, best in (document.get("optimum") or {}).items():
+        if best:
+            low, high = best.get("range") or (best["value"], best["value"])
+            figures[f"sweep_optimum_{model}_{unit}"] = {"value": best["value"], "uncertainty": 0.5 * (high - low)}
+    return {"frequency_index": int(frequency_index), "parameter": document["parameter"]["name"],
+            "model": document.get("label"), "figures": figures}
