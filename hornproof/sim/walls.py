@@ -21,8 +21,7 @@ def wall_outline(a, b, big_a, big_b, length, wall, cell):
 
     Inner half-widths follow the straight flare at the layer's mid-plane, rounded to whole
     cells; the wall is ``wall`` thick normal to the sloped wall (so wider horizontally),
-    rounded to the nearest whole cell (a ladder that holds one wall
-    thickness then models it within half a cell on every rung). Returns a dict of arrays over the layers: ``z0`` (layer start),
+    rounded up to whole cells. Returns a dict of arrays over the layers: ``z0`` (layer start),
     ``inner_x``, ``outer_x``, ``inner_y``, ``outer_y`` (Meep units).
     """
     n = int(round(length / cell))
@@ -31,7 +30,7 @@ def wall_outline(a, b, big_a, big_b, length, wall, cell):
     for name, small, big in (("x", a, big_a), ("y", b, big_b)):
         slope = (big - small) / (2 * length)
         inner = np.round((small / 2 + slope * mid) / cell) * cell
-        thick = max(MIN_WALL_CELLS, np.round(wall * np.hypot(1.0, slope) / cell)) * cell
+        thick = max(MIN_WALL_CELLS, np.ceil(wall * np.hypot(1.0, slope) / cell - 1e-9)) * cell
         out["inner_" + name] = np.maximum.accumulate(inner)
         out["outer_" + name] = out["inner_" + name] + thick
     return out

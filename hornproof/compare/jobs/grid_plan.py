@@ -17,8 +17,6 @@ import numpy as np
 
 from ...analytic.predict import predict
 from ...sim.grid_fit import fit_ladder, flared_plane
-from ...sim.walls import MIN_WALL_CELLS
-from ...units import SPEED_OF_LIGHT
 
 #: figures whose geometry-residual uncertainty the aperture model can give
 GEOMETRY_FIGURES = ("directivity_dbi", "directivity_2d_db", "gain_dbi", "realized_gain_dbi", "hpbw_h_deg",
@@ -82,17 +80,3 @@ def combine_uncertainty(grid_convergence, geometry):
         extra = geometry[index] if geometry is not None and index < len(geometry) else 0.0
         combined.append(None if value is None else math.hypot(float(value), float(extra or 0.0)))
     return combined
-
-
-def ladder_wall_thickness(case, ladder):
-    """The wall thickness every rung of ``ladder`` models, m: the case's own, or the thinnest
-    the coarsest rung can hold (``MIN_WALL_CELLS`` cells) if that is thicker.
-
-    A wall thinner than two cells leaks (ARCHITECTURE.md, modelling pitfalls), so a coarse rung
-    thickens it. Thickening each rung to its own two cells would model a different rim on every
-    rung — for a narrow E-plane opening a change of the order of 0.1–1 dB — and the ladder would
-    measure the rim instead of the discretisation. Every rung therefore models the coarsest
-    rung's wall (each rung rounds it to its whole cells).
-    """
-    coarsest_cell = SPEED_OF_LIGHT / float(np.max(case.frequencies)) / float(min(ladder))
-    return max(float(case.horn.wall_thickness), MIN_WALL_CELLS * coarsest_cell)

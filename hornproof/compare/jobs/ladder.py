@@ -6,7 +6,6 @@ it; the per-frequency figures of every grid then give each figure's grid-converg
 (:mod:`hornproof.compare.numerics.convergence`).
 """
 
-import dataclasses
 import time
 
 import numpy as np
@@ -55,13 +54,11 @@ def progress_reporter(case, cells_per_wavelength):
     return ProgressReporter(f"hornproof:   {case.name} at {cells_per_wavelength:.2f} cells per wavelength")
 
 
-def run_fdtd_ladder(case, ladder, *, force=False, log=say, progress=None, wall=None):
+def run_fdtd_ladder(case, ladder, *, force=False, log=say, progress=None):
     """Run the FDTD model once per grid of ``ladder`` (cells per wavelength), coarse first.
 
-    ``wall`` (m) is the wall thickness every rung models (``grid_plan.ladder_wall_thickness``;
-    default: the case's own). Returns the list of SimResult, in the order of ``ladder`` as given.
+    Returns the list of SimResult, in the order of ``ladder`` as given.
     """
-    horn = case.horn if wall is None else dataclasses.replace(case.horn, wall_thickness=float(wall))
     order = sorted(range(len(ladder)), key=lambda i: ladder[i])
     results = [None] * len(ladder)
     dims = int(case.fdtd.dims)
@@ -74,7 +71,7 @@ def run_fdtd_ladder(case, ladder, *, force=False, log=say, progress=None, wall=N
             f"({dims}D){eta}")
         log(f"hornproof:   {resource_line(case, cells_per_wavelength)}")
         started = time.monotonic()
-        result = fdtd_run.simulate(horn, case.frequencies, case.fdtd, cells_per_wavelength, force=force,
+        result = fdtd_run.simulate(case.horn, case.frequencies, case.fdtd, cells_per_wavelength, force=force,
                                    progress=progress or progress_reporter(case, cells_per_wavelength))
         seconds = time.monotonic() - started
         rate = relative_cost(cells_per_wavelength, dims) / max(seconds, 1e-3)
@@ -157,7 +154,7 @@ def solver_block(case, sim_results, ladder, seconds):
         "cells_per_wavelength": [float(c) for c in ladder],
         "finest_cells_per_wavelength": float(max(ladder)),
         "grid_step_mm": [r.run.get("grid_step_m", np.nan) * 1e3 for r in sim_results],
-        "wall_thickness_requested_mm": float(case.horn.wall_thickness) * 1e3,
+        "wall_thickness_requested_mm": run.get("wall_thickness_requested_m", np.nan) * 1e3,
         "wall_thickness_modelled_mm": [r.run.get("wall_thickness_modelled_m", np.nan) * 1e3 for r in sim_results],
         "cells_across_guide_b": [r.run.get("cells_across_guide_b") for r in sim_results],
         "modelled_sizes_mm": [{k[len("modelled_"):-2] + "_mm": v * 1e3 for k, v in r.run.items()

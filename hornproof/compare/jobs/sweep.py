@@ -139,7 +139,7 @@ def add_fdtd(point, pcase, run, centre, label, log):
     point.seconds = sum(s or 0 for s in figures.get("seconds", []))
     point.details = {key: figures.get(key) for key in ("cells_per_wavelength", "seconds", "verdict",
                                                         "worst_size_residual_percent", "wall_thickness_modelled_mm",
-                                                        "wall_thickness_ladder_mm")}
+                                                        "wall_thickness_modelled_per_rung_mm")}
 
 
 def run_points(case, horns, dims, run, analytic_only, log):

@@ -2,7 +2,7 @@
 
 A sweep point *is* a verify of a case that differs from the sweep's case only in its horn (and
 in the model dimension when the sweep asks for the 2D first look): the same grid-fitted ladder
-(the sweep's ladder, or the default ladder of the point's horn), the same wall on every rung,
+(the sweep's ladder, or the default ladder of the point's horn),
 the same refinement goal, the same uncertainty (grid convergence, power balance and geometry
 residual, root-sum-square) and the same rules on which uncertainty is confident
 (:mod:`..numerics.confidence`). :func:`point_figures` keeps what a sweep needs of it, per band
@@ -97,5 +97,5 @@ def point_figures(pcase, *, force=False, log=None):
         "seconds": [r.run.get("seconds_total") for r in sim_results],
         "worst_size_residual_percent": [100.0 * fit.worst_relative_residual for fit in fits],
         "wall_thickness_modelled_mm": fdtd.get("wall_thickness_modelled_mm"),
-        "wall_thickness_ladder_mm": summary["solver"].get("wall_thickness_ladder_mm"),
+        "wall_thickness_modelled_per_rung_mm": summary["solver"].get("wall_thickness_modelled_mm"),
     })

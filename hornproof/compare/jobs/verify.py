@@ -23,7 +23,7 @@ from ..numerics.verdict import comparison_block, judge
 from ..output.folders import publish_folder
 from ..output.json_document import jsonable
 from .ladder import FORMAL_ORDER, fdtd_figures, ladder_convergence, run_fdtd_ladder, solver_block, solver_warnings
-from .grid_plan import combine_uncertainty, fitted_ladder, geometry_residual, ladder_wall_thickness
+from .grid_plan import combine_uncertainty, fitted_ladder, geometry_residual
 from .messages import is_writer, say
 from .predict import predict_case
 from .refine import RefinementGoal, refine
@@ -270,14 +270,13 @@ def evaluate_case(case, *, force=False, ladder=None, progress=None, goal=None, l
     fits = fitted_ladder(case, [float(c) for c in (ladder or case.fdtd.cells_per_wavelength)])
     ladder = [fit.cells_per_wavelength for fit in fits]
     summary, models = predict_case(case)
-    wall = ladder_wall_thickness(case, ladder)
-    sim_results = run_fdtd_ladder(case, ladder, force=force, progress=progress, log=log, wall=wall)
+    sim_results = run_fdtd_ladder(case, ladder, force=force, progress=progress, log=log)
     goal = goal or case_goal(case)
     stop_reason = None
     if goal is not None:
         fits, sim_results, stop_reason = refine(
             case, summary["models"], fits, sim_results, goal,
-            lambda rungs: run_fdtd_ladder(case, rungs, force=force, progress=progress, log=log, wall=wall), log)
+            lambda rungs: run_fdtd_ladder(case, rungs, force=force, progress=progress, log=log), log)
         log(f"hornproof: {stop_reason}")
         ladder = [fit.cells_per_wavelength for fit in fits]
     summary["models"]["fdtd"], convergence = fdtd_model_block(case, sim_results, ladder,
@@ -286,7 +285,6 @@ def evaluate_case(case, *, force=False, ladder=None, progress=None, goal=None, l
     summary["solver"] = solver_block(case, sim_results, ladder, time.monotonic() - started)
     summary["solver"]["nominal_cells_per_wavelength"] = [fit.nominal_cells_per_wavelength for fit in fits]
     summary["solver"]["grid_fit"] = [fit.to_dict() for fit in fits]
-    summary["solver"]["wall_thickness_ladder_mm"] = wall * 1e3
     if goal is not None:
         summary["solver"]["refinement"] = {"target_uncertainty_db": goal.target_db,
                                            "budget_seconds": goal.budget_seconds, "stopped": stop_reason}
