@@ -74,7 +74,7 @@ def format_sweep(document):
         spread = best.get("range") or [best["value"], best["value"]]
         where = (f"{best['value']:.3g} {unit}" if name != "fdtd" else
                  f"{best['value']:.3g} {unit} (could be anywhere in {spread[0]:.3g}..{spread[1]:.3g}"
-                 + ("" if best.get("confident") else "; not all points have a confident uncertainty") + ")")
+                 + ("" if best.get("bounded", True) else "; some points have no bound on their uncertainty") + ")")
         lines.append(f"  {MODEL_WORDS[name]} peaks at {where}, S = {best['phase_error_h_wl']:.3f}, "
                      f"T = {best['phase_error_e_wl']:.3f} wavelengths"
                      + ("" if best["interior"] else " — at the edge of the sweep"))

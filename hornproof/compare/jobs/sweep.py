@@ -218,7 +218,7 @@ def model_block(case, points, dims, analytic_only):
         for kind in ("aperture_model", "total"):
             uncertainties[kind] = shown
             breakdown[kind] = breakdown_interval(values, errors[kind], confident, bound, tolerance)
-        optimum["fdtd"] = fdtd_optimum(spec, case.horn, values, fdtd, confident, frequency)
+        optimum["fdtd"] = fdtd_optimum(spec, case.horn, values, fdtd, confident, bound, frequency)
         block["models"]["fdtd"] = fdtd
         block.update(fdtd_uncertainty=shown, fdtd_confident_uncertainty=confident, fdtd_disagreement_bound=bound,
                      fdtd_ladder=[p.ladder for p in points], fdtd_uncertainty_reason=[p.reason for p in points],
@@ -325,15 +325,15 @@ def analytic_optimum(dense, name):
     return {"value": float(dense["values"][i]), "figure": float(curve[i]), "uncertainty": 0.0,
             "interior": 0 < i < curve.size - 1,
             "range": [float(dense["values"][i]) - step / 2, float(dense["values"][i]) + step / 2],
-            "confident": True,
+            "bounded": True,
             "phase_error_h_wl": float(dense["phase_error_h_wl"][i]),
             "phase_error_e_wl": float(dense["phase_error_e_wl"][i])}
 
 
-def fdtd_optimum(spec, base_horn, values, fdtd, confident, frequency):
+def fdtd_optimum(spec, base_horn, values, fdtd, confident, bound, frequency):
     """Where the FDTD directivity peaks among the swept values, with the range that could hold
-    the peak given each point's confident uncertainty (:func:`..numerics.breakdown.optimum_interval`)."""
-    best = optimum_interval(values, fdtd, confident, None)
+    the peak given each point's uncertainty (:func:`..numerics.breakdown.optimum_interval`)."""
+    best = optimum_interval(values, fdtd, confident, bound)
     if best is None:
         return None
     horn = spec.horn_at(base_horn, best["value"])

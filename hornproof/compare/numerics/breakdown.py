@@ -142,11 +142,10 @@ def optimum_interval(values, figure, confident, bounds):
         Swept values (distinct).
     figure : array_like, shape [n]
         The figure (e.g. directivity, dB); NaN samples skipped.
-    confident : array_like, shape [n]
-        Confident uncertainty of each sample (NaN: none).
-    bounds : array_like, shape [n]
-        Not used for the range (a peak needs confident samples); kept for symmetry with
-        :func:`breakdown_interval` and recorded.
+    confident : array_like or float, shape [n]
+        Confident uncertainty of each sample (NaN: none): reported at the best sample.
+    bounds : array_like or float, shape [n]
+        Disagreement bound of each sample (NaN: none; a confident uncertainty counts as one).
 
     Returns
     -------
@@ -154,27 +153,30 @@ def optimum_interval(values, figure, confident, bounds):
         ``value`` (the best sample, or the vertex of a parabola through the best three when the
         best is interior and the parabola opens down — common practice), ``figure`` and
         ``uncertainty`` at the best sample, ``interior`` (bool), ``range`` [lo, hi]: every
-        swept value whose upper envelope (figure + u) reaches the best sample's lower envelope
-        (figure − u) could be the peak; a sample without a confident u counts as "could", so the
-        range is then ``confident: False``. None when no sample is usable.
+        swept value not *surely* below the best — surely below means its figure + bound stays
+        under the best figure − its bound, the same test as a disagreement — could be the
+        peak; a sample without a bound could always be it, and ``bounded`` is then False.
+        None when no sample is usable.
     """
     x, v = _array(values), _array(figure)
     u = _array(confident) if np.ndim(confident) else np.full(v.shape, float(confident))
+    b = _array(bounds) if np.ndim(bounds) else np.full(v.shape, float(bounds))
     keep = np.isfinite(x) & np.isfinite(v)
-    x, v, u = x[keep], v[keep], u[keep]
+    x, v, u, b = x[keep], v[keep], u[keep], b[keep]
     if x.size == 0:
         return None
     order = np.argsort(x)
-    x, v, u = x[order], v[order], u[order]
+    x, v, u, b = x[order], v[order], u[order], b[order]
+    b = np.where(np.isfinite(u) & ~(b >= u), u, b)  # a confident uncertainty is also a bound
     i = int(np.argmax(v))
     best = float(x[i])
     if 0 < i < x.size - 1:
         a, c, _ = np.polyfit(x[i - 1:i + 2], v[i - 1:i + 2], 2)
         if a < 0:
             best = float(np.clip(-c / (2 * a), x[i - 1], x[i + 1]))
-    floor = v[i] - (u[i] if np.isfinite(u[i]) else np.inf)
-    could = np.where(np.isfinite(u), v + u >= floor, True)
+    floor = v[i] - (b[i] if np.isfinite(b[i]) else np.inf)
+    could = np.where(np.isfinite(b), v + b >= floor, True)
     return {"value": best, "figure": float(v[i]), "uncertainty": float(u[i]) if np.isfinite(u[i]) else None,
             "interior": bool(0 < i < x.size - 1),
             "range": [float(x[could].min()), float(x[could].max())],
-            "confident": bool(np.all(np.isfinite(u[could])) and np.isfinite(u[i]))}
+            "bounded": bool(np.all(np.isfinite(b[could])))}

@@ -79,7 +79,7 @@ def optimum_rows(sweep, unit):
         spread = best.get("range") or [best["value"], best["value"]]
         rows.append({"model": MODEL_NAMES.get(key, key), "value": f"{number(best['value'], 1)} {unit}",
                      "range": f"{number(spread[0], 1)}–{number(spread[1], 1)} {unit}"
-                              + ("" if best.get("confident", True) else " (not all points confident)"),
+                              + ("" if best.get("bounded", True) else " (some points unbounded)"),
                      "figure": number(best.get("figure"), 2) + ("" if best.get("uncertainty") in (None, 0.0)
                                                                  else " ± " + number(best["uncertainty"], 2)),
                      "phase_errors": f"S = {number(best.get('phase_error_h_wl'), 3)}, "

@@ -73,15 +73,18 @@ def test_holds_throughout_and_past_from_the_start():
 def test_optimum_range_holds_every_value_that_could_be_the_peak():
     # v = 10, 11, 11.1, 10.5 ± 0.2: the best is 11.1 (floor 10.9); 11 + 0.2 ≥ 10.9 could be the
     # peak, 10.5 + 0.2 and 10 + 0.2 cannot: range [20, 30]
-    out = optimum_interval([10, 20, 30, 40], [10, 11, 11.1, 10.5], [0.2] * 4, None)
+    out = optimum_interval([10, 20, 30, 40], [10, 11, 11.1, 10.5], [0.2] * 4, [0.2] * 4)
     assert out["range"] == [20.0, 30.0]
-    assert out["confident"] and out["interior"]
+    assert out["bounded"] and out["interior"]
     assert 20.0 <= out["value"] <= 40.0
-    # without a confident uncertainty anywhere, any sample could be the peak
-    loose = optimum_interval([10, 20, 30], [1, 2, 1], [NAN] * 3, None)
-    assert loose["range"] == [10.0, 30.0] and not loose["confident"]
+    # without any bound, any sample could be the peak
+    loose = optimum_interval([10, 20, 30], [1, 2, 1], [NAN] * 3, [NAN] * 3)
+    assert loose["range"] == [10.0, 30.0] and not loose["bounded"]
+    # a bound without a confident uncertainty may still exclude a sample: 1 + 0.3 < 2 − 0.3
+    bounded = optimum_interval([10, 20, 30], [1, 2, 1.9], [NAN] * 3, [0.3] * 3)
+    assert bounded["range"] == [20.0, 30.0] and bounded["uncertainty"] is None
     # a parabola through three samples symmetric about 20 peaks at 20 (exact)
-    assert optimum_interval([10, 20, 30], [1, 2, 1], [0.0] * 3, None)["value"] == pytest.approx(20.0)
+    assert optimum_interval([10, 20, 30], [1, 2, 1], [0.0] * 3, [0.0] * 3)["value"] == pytest.approx(20.0)
 
 
 def test_latest_edge_interpolates_the_sure_margin_by_hand():
