@@ -153,9 +153,9 @@ def optimum_interval(values, figure, confident, bounds):
         ``value`` (the best sample, or the vertex of a parabola through the best three when the
         best is interior and the parabola opens down — common practice), ``figure`` and
         ``uncertainty`` at the best sample, ``interior`` (bool), ``range`` [lo, hi]: every
-        swept value not *surely* below the best — surely below means its figure + bound stays
-        under the best figure − its bound, the same test as a disagreement — could be the
-        peak; a sample without a bound could always be it, and ``bounded`` is then False.
+        swept value not *surely* below another — surely below means its figure + bound stays
+        under some other sample's figure − bound, the same test as a disagreement — could be
+        the peak; a sample without a bound could always be it, and ``bounded`` is then False.
         None when no sample is usable.
     """
     x, v = _array(values), _array(figure)
@@ -174,7 +174,8 @@ def optimum_interval(values, figure, confident, bounds):
         a, c, _ = np.polyfit(x[i - 1:i + 2], v[i - 1:i + 2], 2)
         if a < 0:
             best = float(np.clip(-c / (2 * a), x[i - 1], x[i + 1]))
-    floor = v[i] - (b[i] if np.isfinite(b[i]) else np.inf)
+    lower = v - b
+    floor = float(np.max(lower[np.isfinite(lower)])) if np.any(np.isfinite(lower)) else -np.inf
     could = np.where(np.isfinite(b), v + b >= floor, True)
     return {"value": best, "figure": float(v[i]), "uncertainty": float(u[i]) if np.isfinite(u[i]) else None,
             "interior": bool(0 < i < x.size - 1),

@@ -104,3 +104,9 @@ def test_latest_edge_interpolates_the_sure_margin_by_hand():
     # JSON nulls (None) read as unknown, never as an error
     assert breakdown_interval([1.0, 2.0, 3.0], [0.1, None, 0.9], [0.0, 0.0, None], [0.0, 0.0, None],
                               0.5)["latest"] is None
+
+
+def test_an_unbounded_best_sample_does_not_open_the_whole_range():
+    # best 2.0 has no bound; 1.5 ± 0.1 is surely above 1.0 ± 0.1 (1.1 < 1.4), so 10 is excluded
+    out = optimum_interval([10, 20, 30], [1.0, 2.0, 1.5], [NAN] * 3, [0.1, NAN, 0.1])
+    assert out["range"] == [20.0, 30.0] and not out["bounded"]
