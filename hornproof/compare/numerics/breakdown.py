@@ -88,7 +88,10 @@ def breakdown_interval(values, errors, confident, bounds, tolerance):
         ``nominal`` (|e| = t crossing), ``earliest`` (|e| + u = t), ``latest`` (|e| − b = t):
         each a float, ``"below range"`` or None (not inside the sweep); ``status`` (one of
         :data:`BREAKDOWN_STATUSES`); ``reason`` (words, why unresolved); ``holds``, ``past``:
-        lists of the swept values where the model surely holds / is surely past tolerance.
+        lists of the swept values where the model surely holds / is surely past tolerance;
+        ``back_within``: [first, last] runs of consecutive swept values beyond the breakdown
+        where the model surely holds again (an error that changes sign comes back through the
+        tolerance band).
     """
     x, e = _array(values), _array(errors)
     u = np.broadcast_to(_array(confident), e.shape) if np.ndim(confident) else np.full(e.shape, float(confident))
@@ -112,6 +115,7 @@ def breakdown_interval(values, errors, confident, bounds, tolerance):
            "holds": [float(v) for v, m in zip(x, could) if m <= 0],
            "past": [float(v) for v, m in zip(x, sure) if m > 0],
            "unknown": [float(v) for v, m1, m2 in zip(x, could, sure) if not m1 <= 0 and not m2 > 0]}
+    out["back_within"] = _runs(x, could <= 0, out["latest"])
     if x.size == 0:
         out.update(status="unresolved", reason="no usable point")
     elif out["latest"] == "below range":
@@ -125,6 +129,23 @@ def breakdown_interval(values, errors, confident, bounds, tolerance):
                    reason="no later point is surely past the tolerance" + (
                        f" (cannot tell at {', '.join(f'{v:g}' for v in out['unknown'])})" if out["unknown"] else ""))
     return out
+
+
+def _runs(x, flags, edge):
+    """[first, last] of each run of consecutive samples of ``x`` past ``edge`` where ``flags``."""
+    if edge is None:
+        return []
+    runs, open_run = [], False
+    for value, flag in zip(x, flags):
+        if flag and (edge == "below range" or value > edge):
+            if open_run:
+                runs[-1][1] = float(value)
+            else:
+                runs.append([float(value), float(value)])
+            open_run = True
+        else:
+            open_run = False
+    return runs
 
 
 def analytic_breakdown(values, errors, tolerance):

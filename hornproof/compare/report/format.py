@@ -202,11 +202,15 @@ def breakdown_words(interval, unit, decimals=1):
     if status == "past tolerance from the start":
         return "already past the tolerance at the first value"
     if status == "breaks":
+        back = interval.get("back_within") or []
+        spans = [number(lo, decimals) if hi == lo else f"{number(lo, decimals)}–{number(hi, decimals)}"
+                 for lo, hi in back]
+        again = f"; back within the tolerance at {', '.join(spans)} {unit}" if back else ""
         if earliest == latest:
-            return f"breaks at {_edge_text(latest, unit, decimals)}"
+            return f"breaks at {_edge_text(latest, unit, decimals)}{again}"
         middle = "" if nominal in (None, "below range") else f", nominal {number(nominal, decimals)}"
         return (f"breaks between {_edge_text(earliest, unit, decimals)} and "
-                f"{_edge_text(latest, unit, decimals)}{middle}")
+                f"{_edge_text(latest, unit, decimals)}{middle}{again}")
     if earliest is None:
         return f"unresolved: {interval.get('reason') or 'no usable point'}"
     return f"unresolved: may break from {_edge_text(earliest, unit, decimals)} on; {interval.get('reason', '')}".rstrip("; ")

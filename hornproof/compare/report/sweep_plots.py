@@ -36,12 +36,14 @@ def write_sweep_plots(folder, document):
         plot_principal_plane_parting(folder / "aperture_error_3d_vs_2d", document)
 
 
-def _draw_interval(ax, interval, colour, label, x_max):
+def _draw_interval(ax, interval, colour, label, x_range):
     """Shade a breakdown interval: solid from its earliest to its latest edge; hatched from the
-    earliest edge to the end of the sweep when unresolved."""
+    earliest edge to the end of the sweep when unresolved ("below range" = the first value)."""
     if not isinstance(interval, dict):
         return
-    earliest, latest = interval.get("earliest"), interval.get("latest")
+    x_min, x_max = x_range
+    earliest, latest = (x_min if edge == "below range" else edge
+                        for edge in (interval.get("earliest"), interval.get("latest")))
     if interval.get("status") == "breaks" and isinstance(earliest, (int, float)) and isinstance(latest, (int, float)):
         if latest - earliest > 0:
             ax.axvspan(earliest, latest, color=colour, alpha=0.16, linewidth=0, label=label)
@@ -86,7 +88,8 @@ def plot_error_vs_parameter(path_stem, document):
             ax.plot(x[~sure], e[~sure], "o", markerfacecolor="white", markeredgecolor=colour, markersize=5)
         interval = (document.get("breakdown") or {}).get(key)
         words = breakdown_words(interval, unit)
-        _draw_interval(ax, interval, colour, f"Breakdown, {label.split(' (')[0].lower()}: {words}", np.nanmax(x))
+        _draw_interval(ax, interval, colour, f"Breakdown, {label.split(' (')[0].lower()}: {words}",
+                       (np.nanmin(x), np.nanmax(x)))
     tolerance = document.get("tolerance")
     if tolerance is not None:
         for sign in (1, -1):
@@ -164,7 +167,7 @@ def plot_principal_plane_parting(path_stem, document):
     parted = document.get("parting") or {}
     _draw_interval(ax, parted.get("interval"), "#8a5a9e",
                    "Where 3D and 2D part: " + breakdown_words(parted.get("interval"), p["unit"]).replace(
-                       "breaks", "differ beyond the tolerance"), np.nanmax(x))
+                       "breaks", "differ beyond the tolerance"), (np.nanmin(x), np.nanmax(x)))
     ax.set_xlabel(f"{p['label']} ({p['unit']})")
     ax.set_ylabel("Aperture-model error (dB)")
     set_title(ax, document.get("title", ""), "What the 2D first look says of the aperture model, and the 3D truth")

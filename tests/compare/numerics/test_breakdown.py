@@ -110,3 +110,9 @@ def test_an_unbounded_best_sample_does_not_open_the_whole_range():
     # best 2.0 has no bound; 1.5 ± 0.1 is surely above 1.0 ± 0.1 (1.1 < 1.4), so 10 is excluded
     out = optimum_interval([10, 20, 30], [1.0, 2.0, 1.5], [NAN] * 3, [0.1, NAN, 0.1])
     assert out["range"] == [20.0, 30.0] and not out["bounded"]
+
+
+def test_an_error_that_changes_sign_is_seen_coming_back():
+    # e = 0, −0.5, 0.1, 0.2, −0.6 (t 0.3, exact): past at 20, surely within again at 30–40
+    out = analytic_breakdown([10, 20, 30, 40, 50], [0.0, -0.5, 0.1, 0.2, -0.6], 0.3)
+    assert out["status"] == "breaks" and out["back_within"] == [[30.0, 40.0]]
