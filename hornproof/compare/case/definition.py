@@ -10,15 +10,17 @@ from ...sim.settings import FdtdSettings
 from .band_table import band_frequencies, check_band_against_guide, guide_warnings, read_band
 from .checks_table import read_checks
 from .fdtd_table import grid_warnings, read_fdtd
-from .horn_table import read_horn
+from .horn_table import read_horn, read_wall
+from .range_table import read_range
 from .sweep_table import read_sweep
 from .tiers_table import read_tiers
+from .tolerance_table import read_tolerance
 from .values import CaseProblem, check_keys, describe_value, input_error, read_table
 
 #: The case-file format this package reads.
 FORMAT_VERSION = 1
 
-TOP_KEYS = ("format", "title", "horn", "band", "fdtd", "checks", "sweep", "tiers")
+TOP_KEYS = ("format", "title", "horn", "band", "fdtd", "checks", "sweep", "tiers", "range", "tolerance")
 
 
 def case_fields(path, raw, *, tier=None, cells_override=None):
@@ -51,6 +53,7 @@ def _validated_fields(path, raw, tier, cells_override):
     check_keys(raw, TOP_KEYS, "")
     title = _read_title(raw, path.stem)
     horn = read_horn(read_table(raw, "horn", required=True))
+    wall = read_wall(raw["horn"])
     band = read_band(read_table(raw, "band", required=True), "band")
     check_band_against_guide(band, horn)
     fdtd_fields, quick_2d = read_fdtd(read_table(raw, "fdtd", required=False), horn,
@@ -59,6 +62,8 @@ def _validated_fields(path, raw, tier, cells_override):
     sweep = read_sweep(read_table(raw, "sweep", required=False), horn, fdtd_fields)
     tiers = read_tiers(read_table(raw, "tiers", required=False), horn, band, fdtd_fields,
                        quick_2d)
+    range_distances = read_range(read_table(raw, "range", required=False))
+    tolerance = read_tolerance(read_table(raw, "tolerance", required=False), horn)
 
     if tier is not None:
         overrides = tiers[tier]
@@ -84,7 +89,8 @@ def _validated_fields(path, raw, tier, cells_override):
                 fdtd=fdtd, checks=checks, check_model=check_model, sweep=sweep, tiers=tiers,
                 sha256=_variant_sha256(raw, tier, cells_override),
                 warnings=tuple(dict.fromkeys(warnings)), raw=raw, tier=tier,
-                cells_override=tuple(cells_override) if cells_override is not None else None)
+                cells_override=tuple(cells_override) if cells_override is not None else None,
+                wall=wall, range_distances=range_distances, tolerance=tolerance)
 
 
 def _variant_sha256(raw, tier, cells_override):
