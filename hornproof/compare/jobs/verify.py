@@ -26,6 +26,7 @@ from .ladder import FORMAL_ORDER, fdtd_figures, ladder_convergence, run_fdtd_lad
 from .grid_plan import combine_uncertainty, fitted_ladder, geometry_residual
 from .messages import is_writer, say
 from .predict import predict_case
+from .range_and_shop import add_range_and_shop
 from .refine import RefinementGoal, refine
 from .result_folder import draw_model_image, move_model_image, write_result_files
 from .sidelobe_match import add_feature_notes, matched_sidelobes
@@ -293,6 +294,7 @@ def verify_case(case, out_dir=None, *, force=False, ladder=None, progress=None, 
         ladder = [fit.cells_per_wavelength for fit in fits]
     summary["models"]["fdtd"], convergence = fdtd_model_block(case, sim_results, ladder,
                                                               geometry_residual(case, fits))
+    add_range_and_shop(case, summary)  # wall loss, finite range, tolerances: only if the case asks
     summary["comparison"] = comparison(case, summary["models"], models, sim_results, ladder, convergence)
     summary["solver"] = solver_block(case, sim_results, ladder, time.monotonic() - started)
     summary["solver"]["nominal_cells_per_wavelength"] = [fit.nominal_cells_per_wavelength for fit in fits]
