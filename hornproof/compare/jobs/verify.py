@@ -320,11 +320,13 @@ def publish(out_dir, case, summary, models, sim_results, ladder, convergence, im
     """Write every output into a staging folder, then swap it into place (``publish_folder``)."""
     # lazy: the report builder loads its templates and matplotlib (slow) only when a folder is written
     from ..report.html import build_report
+    from ..report.range_shop_plots import write_tolerance_plot
     from ..report.verify_plots import write_verify_plots
 
     def write(staging):
         write_result_files(staging, case, summary, sim_results, ladder)
         write_verify_plots(staging, case, summary, models, sim_results, ladder, convergence)
+        write_tolerance_plot(staging, summary)
         move_model_image(image, staging)
         build_report(staging)
 
