@@ -125,3 +125,17 @@ def test_verify_reports_all_three_in_terminal_json_and_html(tmp_path):
     assert (tmp_path / "out" / "tolerance.png").is_file()
     text = format_verdicts(summary)
     assert "Wall loss: brass" in text and "Finite-range gain" in text and "Tolerance study" in text
+
+
+def test_realized_gain_is_judged_against_the_analytic_gain_when_walls_are_lossy():
+    # IEEE Std 145-2013: a matched antenna's realized gain is its gain; with a wall metal the
+    # analytic models' gain is directivity − loss, and that is what FDTD's realized gain meets
+    from hornproof.compare.numerics.verdict import comparison_block
+    f = np.array([10e9])
+    models = {"closed_form": {"directivity_dbi": [16.0], "gain_dbi": [15.9]},
+              "exact_phase": {"directivity_dbi": [16.1]},
+              "fdtd": {"realized_gain_dbi": [15.8]}}
+    block = comparison_block(f, models, {"realized_gain_db": 0.5}, {"realized_gain_db": [0.01]})
+    row = block["metrics"][0]["per_frequency"][0]
+    assert row["closed_form"] == pytest.approx(15.9) and row["exact_phase"] == pytest.approx(16.1)
+    assert row["difference"] == pytest.approx(0.1)
