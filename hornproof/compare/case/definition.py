@@ -77,6 +77,8 @@ def _validated_fields(path, raw, tier, cells_override):
 
     frequencies = band_frequencies(band)
     frequencies.setflags(write=False)
+    if range_distances:  # the 3D FDTD post-processing evaluates the range gain (sim/range_gain.py)
+        fdtd_fields["extra"] = dict(fdtd_fields.get("extra") or {}, range_distances_m=tuple(range_distances))
     fdtd = FdtdSettings(**fdtd_fields)
 
     warnings = [f"{path}: {key}: {reason}" for key, reason in

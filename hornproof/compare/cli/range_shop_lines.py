@@ -11,6 +11,13 @@ def _fmt(value, width, digits=2):
     return MISSING_VALUE.rjust(width) if value is None else f"{value:{width}.{digits}f}"
 
 
+def _uncertain(fdtd, key, i):
+    """An FDTD uncertainty cell, '?' when not confident (as in verify's table)."""
+    value = fdtd[f"{key}_uncertainty_db"][i]
+    confident = (fdtd.get(f"{key}_uncertainty_confident") or [False] * (i + 1))[i]
+    return (_fmt(value, 6, 3) + ("" if confident or value is None else "?")).rjust(7)
+
+
 def wall_loss_lines(summary):
     block = summary.get("wall_loss")
     if not block:
@@ -45,12 +52,19 @@ def range_lines(summary):
                  "+- = spread between the aperture models):"]
     for name, values in criteria.items():
         lines.append(f"    far-field criterion {name}: {min(values):.2f}-{max(values):.2f} m over the band")
-    lines.append(f"  {'R m':>8} {'f GHz':>7} {'G_R cf':>8} {'G_R ex':>8} {'corr dB':>8} {'+-':>6}")
+    lines.append(f"  {'R m':>8} {'f GHz':>7} {'G_R cf':>8} {'G_R ex':>8} {'corr dB':>8} {'+-':>6}"
+                 f" {'G_R FDTD':>9} {'+-':>7} {'corr FDTD':>9} {'+-':>7}  FDTD correction ladder")
     for row in block["distances"]:
+        fdtd = row.get("fdtd")
         for i, frequency in enumerate(freqs):
-            lines.append(f"  {row['distance_m']:8.2f} {frequency:7.3f} {_fmt(row['closed_form_gain_dbi'][i], 8)} "
-                         f"{_fmt(row['exact_phase_gain_dbi'][i], 8)} {_fmt(row['correction_db'][i], 8, 3)} "
-                         f"{_fmt(row['correction_uncertainty_db'][i], 6, 3)}")
+            text = (f"  {row['distance_m']:8.2f} {frequency:7.3f} {_fmt(row['closed_form_gain_dbi'][i], 8)} "
+                    f"{_fmt(row['exact_phase_gain_dbi'][i], 8)} {_fmt(row['correction_db'][i], 8, 3)} "
+                    f"{_fmt(row['correction_uncertainty_db'][i], 6, 3)}")
+            if fdtd:
+                text += (f" {_fmt(fdtd['gain_dbi'][i], 9)} {_uncertain(fdtd, 'gain', i)} "
+                         f"{_fmt(fdtd['correction_db'][i], 9, 3)} {_uncertain(fdtd, 'correction', i)}"
+                         f"  {fdtd['correction_ladder'][i]}")
+            lines.append(text)
     lines.append(f"    FDTD: {block['fdtd']}")
     return lines
 

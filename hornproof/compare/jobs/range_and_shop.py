@@ -11,15 +11,16 @@ from .tolerance_block import tolerance_block
 from .wall_loss_block import apply_wall_loss, wall_loss_block, wall_loss_of
 
 
-def add_range_and_shop(case, summary):
+def add_range_and_shop(case, summary, sim_results=None, ladder=None):
     """Add ``wall_loss``, ``finite_range`` and ``tolerance`` to ``summary`` (in place) as the
     case asks, and lower the gains of ``summary["models"]`` by the wall loss. Call it after the
-    FDTD block is in ``models`` and before the comparison."""
+    FDTD block is in ``models`` and before the comparison; ``sim_results`` and ``ladder`` (the
+    FDTD rungs) add the FDTD range gain of a 3D model."""
     loss = wall_loss_of(case)
     if loss is not None:
         summary["wall_loss"] = wall_loss_block(case, loss)
         apply_wall_loss(summary["models"], loss, case.fdtd.dims)
-    ranged = range_block(case, loss)
+    ranged = range_block(case, loss, sim_results, ladder)
     if ranged is not None:
         summary["finite_range"] = ranged
     study = tolerance_block(case)

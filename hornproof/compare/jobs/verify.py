@@ -294,7 +294,7 @@ def verify_case(case, out_dir=None, *, force=False, ladder=None, progress=None, 
         ladder = [fit.cells_per_wavelength for fit in fits]
     summary["models"]["fdtd"], convergence = fdtd_model_block(case, sim_results, ladder,
                                                               geometry_residual(case, fits))
-    add_range_and_shop(case, summary)  # wall loss, finite range, tolerances: only if the case asks
+    add_range_and_shop(case, summary, sim_results, ladder)  # wall loss, finite range, tolerances: only if the case asks
     summary["comparison"] = comparison(case, summary["models"], models, sim_results, ladder, convergence)
     summary["solver"] = solver_block(case, sim_results, ladder, time.monotonic() - started)
     summary["solver"]["nominal_cells_per_wavelength"] = [fit.nominal_cells_per_wavelength for fit in fits]

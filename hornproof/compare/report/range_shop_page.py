@@ -31,6 +31,18 @@ def wall_loss_rows(result):
             "approximation": block["approximation"], "rows": rows}
 
 
+def _with_uncertainty(fdtd, key, i, digits):
+    """"value ± u" of an FDTD range figure, "(not confident)" as in the verdict table."""
+    if not fdtd:
+        return number(None)
+    value = fdtd["gain_dbi" if key == "gain" else "correction_db"][i]
+    u = fdtd[f"{key}_uncertainty_db"][i]
+    confident = (fdtd.get(f"{key}_uncertainty_confident") or [False] * (i + 1))[i]
+    if u is None:
+        return number(value, digits)
+    return f"{number(value, digits)} ± {number(u, digits)}" + ("" if confident else " (not confident)")
+
+
 def range_rows(result):
     block = result.get("finite_range")
     if not block:
@@ -38,16 +50,21 @@ def range_rows(result):
     f_ghz = result.get("frequencies_ghz") or []
     rows = []
     for row in block["distances"]:
+        fdtd = row.get("fdtd") or {}
         for i, f in enumerate(f_ghz):
             rows.append({"distance": number(row["distance_m"], 2), "frequency": number(f),
                          "closed_form": number(row["closed_form_gain_dbi"][i], 2),
                          "exact_phase": number(row["exact_phase_gain_dbi"][i], 2),
                          "correction": number(row["correction_db"][i], 3),
-                         "uncertainty": number(row["correction_uncertainty_db"][i], 3)})
+                         "uncertainty": number(row["correction_uncertainty_db"][i], 3),
+                         "fdtd_gain": _with_uncertainty(fdtd, "gain", i, 2),
+                         "fdtd_correction": _with_uncertainty(fdtd, "correction", i, 3),
+                         "fdtd_ladder": (fdtd.get("correction_ladder") or [None] * (i + 1))[i] or ""})
     criteria = [{"name": name, "low": number(min(values), 2), "high": number(max(values), 2)}
                 for name, values in block["far_field_distance_m"].items()]
     return {"rows": rows, "criteria": criteria, "note": block["note"], "uncertainty_note": block["uncertainty_note"],
-            "gain_is": block["gain_is"], "fdtd": block["fdtd"]}
+            "gain_is": block["gain_is"], "fdtd": block["fdtd"],
+            "has_fdtd": any("fdtd" in row for row in block["distances"])}
 
 
 def tolerance_rows(result):
