@@ -175,7 +175,7 @@ def post_process(sim, layout, settings, frequencies, meep_frequencies, monitors)
     if distances and layout.dims == 3:  # [range] of the case: the gain a probe at R would infer
         result.extra["range_gain_dbi"] = range_gain_dbi(sim, monitors["far_field"], layout, meep_frequencies,
                                                         p_box, distances)
-        result.extra["range_distances_m"] = np.asarray(distances, dtype=float)
+        result.run["range_distances_m"] = [float(d) for d in distances]  # extra holds per-frequency arrays
     if settings.full_pattern_step_deg and layout.dims == 3:
         result.full_pattern = full_pattern(far_field, settings.full_pattern_step_deg, p_box)
         result.extra["sphere_power_ratio"] = result.full_pattern["sphere_power_ratio"]

@@ -88,6 +88,8 @@ def test_fdtd_range_gain_matches_meeps_own_green_function_and_tends_to_directivi
         settings = FdtdSettings(pattern_step_deg=3.0, farfield_method=method, extra={"range_distances_m": distances})
         result = simulate(horn, np.array([10e9]), settings, 8)
         gains[method] = np.asarray(result.extra["range_gain_dbi"])[0]
+        assert result.run["range_distances_m"] == list(distances)
+        result.to_model_result()  # the extra arrays stay one row per frequency
         # far away the range gain is the directivity (the far-zone transform's boresight value)
         assert gains[method][2] == pytest.approx(float(result.directivity_dbi[0]), abs=0.01)
     np.testing.assert_allclose(gains["fast"], gains["meep"], atol=1e-6)

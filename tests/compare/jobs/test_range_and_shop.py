@@ -139,3 +139,27 @@ def test_realized_gain_is_judged_against_the_analytic_gain_when_walls_are_lossy(
     row = block["metrics"][0]["per_frequency"][0]
     assert row["closed_form"] == pytest.approx(15.9) and row["exact_phase"] == pytest.approx(16.1)
     assert row["difference"] == pytest.approx(0.1)
+
+
+def test_fdtd_range_rows_take_the_finest_rung_and_the_ladder_uncertainty():
+    # three rungs converging at first order (error ∝ cell size): the GCI procedure (Celik et
+    # al. 2008) must see a monotone ladder; the correction is far-field − range gain per rung
+    from types import SimpleNamespace
+    from hornproof.compare.jobs.range_block import fdtd_range_rows
+
+    ladder = [20.0, 14.0, 28.0]  # given out of order on purpose
+
+    def rung(cells):
+        error = 1.0 / cells
+        return SimpleNamespace(directivity_dbi=np.array([16.0 + error, 16.5 + error]),
+                               extra={"range_gain_dbi": np.array([[15.8 + 2 * error, 15.95 + 2 * error],
+                                                                  [16.3 + 2 * error, 16.45 + 2 * error]])})
+
+    rows = fdtd_range_rows([rung(c) for c in ladder], ladder, np.array([0.1, 0.1]))
+    assert len(rows) == 2
+    finest = 1 / 28.0
+    np.testing.assert_allclose(rows[0]["gain_dbi"], [15.8 + 2 * finest - 0.1, 16.3 + 2 * finest - 0.1])
+    np.testing.assert_allclose(rows[1]["correction_db"], [0.05 - finest, 0.05 - finest])
+    assert all(u is not None and u > 0 for u in rows[0]["gain_uncertainty_db"])
+    assert rows[0]["gain_uncertainty_confident"] == [True, True]
+    assert fdtd_range_rows([SimpleNamespace(extra={})], [14.0], np.zeros(2)) is None
