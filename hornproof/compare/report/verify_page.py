@@ -13,6 +13,7 @@ from ..numerics.figures import directivity_key
 from ..numerics.verdict import COMPARED_FIGURES
 from . import plots
 from .range_shop_page import range_shop_captions, range_shop_context
+from .range_shop_plots import write_tolerance_plot
 from .verify_plots import confident_flags
 from .format import CHECK_NAMES, MISSING_VALUE, number, quantity_rows, unit_decimals
 
@@ -299,6 +300,8 @@ def render_missing_result_figures(folder, result):
                 fdtd_confident=confident_flags(all_estimates.get(key), len(f_ghz)) if key in all_estimates else None,
                 case_title=title,
                 unit=unit, quantity="2D directivity" if unit == "dB" else "Directivity")
+    if result.get("tolerance") and not (folder / "tolerance.png").exists():
+        write_tolerance_plot(folder, result)
     s11 = models.get("fdtd", {}).get("s11_db")
     if s11 is not None and not (folder / "s11.png").exists():
         stored = (models.get("fdtd", {}).get("uncertainty") or {}).get("s11_db")

@@ -163,3 +163,22 @@ def test_fdtd_range_rows_take_the_finest_rung_and_the_ladder_uncertainty():
     assert all(u is not None and u > 0 for u in rows[0]["gain_uncertainty_db"])
     assert rows[0]["gain_uncertainty_confident"] == [True, True]
     assert fdtd_range_rows([SimpleNamespace(extra={})], [14.0], np.zeros(2)) is None
+
+
+def test_report_rebuilt_from_result_json_shows_the_section_and_draws_the_figure(tmp_path):
+    # hornproof's own contract: report.html is rebuilt from result.json alone (README "Commands")
+    from hornproof.compare.output.json_document import jsonable
+    from hornproof.compare.output.result_json import write_result_json
+    from hornproof.compare.report.html import build_report
+
+    case = shop_case(tmp_path, pyramidal=True)
+    summary, _ = predict_case(case)
+    add_range_and_shop(case, summary)
+    folder = tmp_path / "result"
+    folder.mkdir()
+    write_result_json(folder / "result.json", jsonable(summary))
+    html = open(build_report(folder)).read()
+    for marker in ("Range and shop", "id='wall-loss'", "id='finite-range'", "id='tolerance'", "Pozar",
+                   "not a bound", "RF exposure"):
+        assert marker in html, marker
+    assert (folder / "tolerance.png").is_file()
