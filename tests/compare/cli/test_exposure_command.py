@@ -58,3 +58,12 @@ def test_bad_arguments_are_one_line_exit_2(args):
                           capture_output=True, text=True, cwd=ROOT, timeout=60)
     assert done.returncode == 2 and "Traceback" not in done.stderr
     assert sum("error:" in line for line in done.stderr.splitlines()) == 1
+
+
+def test_verify_refuses_a_range_outside_the_limits_before_running():
+    # hornproof's own contract (README "Commands"): bad input is one line, exit 2, nothing run
+    done = subprocess.run([sys.executable, "-m", "hornproof.compare.cli.main", "verify",
+                           str(ROOT / "cases" / "demo-h-sectoral.toml"), "--range-m", "200000"],
+                          capture_output=True, text=True, cwd=ROOT, timeout=60)
+    assert done.returncode == 2 and "Traceback" not in done.stderr
+    assert "--range-m" in done.stderr and "grid" not in done.stderr
