@@ -11,15 +11,17 @@ from ..numerics.metrics import band_centre_index
 from .band_table import band_frequencies, check_band_against_guide, guide_warnings, read_band
 from .checks_table import read_checks
 from .fdtd_table import grid_warnings, read_fdtd
-from .horn_table import read_horn
+from .horn_table import read_horn, read_wall
+from .range_table import read_range
 from .sweep_table import read_sweep
 from .tiers_table import read_tiers
+from .tolerance_table import read_tolerance
 from .values import CaseProblem, check_keys, describe_value, input_error, read_table
 
 #: The case-file format this package reads.
 FORMAT_VERSION = 1
 
-TOP_KEYS = ("format", "title", "horn", "band", "fdtd", "checks", "sweep", "tiers")
+TOP_KEYS = ("format", "title", "horn", "band", "fdtd", "checks", "sweep", "tiers", "range", "tolerance")
 
 
 def case_fields(path, raw, *, tier=None, cells_override=None):
@@ -52,6 +54,7 @@ def _validated_fields(path, raw, tier, cells_override):
     check_keys(raw, TOP_KEYS, "")
     title = _read_title(raw, path.stem)
     horn = read_horn(read_table(raw, "horn", required=True))
+    wall = read_wall(raw["horn"])
     band = read_band(read_table(raw, "band", required=True), "band")
     check_band_against_guide(band, horn)
     fdtd_fields, quick_2d = read_fdtd(read_table(raw, "fdtd", required=False), horn,
@@ -61,6 +64,8 @@ def _validated_fields(path, raw, tier, cells_override):
                        _centre_frequency(band_frequencies(band)))
     tiers = read_tiers(read_table(raw, "tiers", required=False), horn, band, fdtd_fields,
                        quick_2d)
+    range_distances = read_range(read_table(raw, "range", required=False))
+    tolerance = read_tolerance(read_table(raw, "tolerance", required=False), horn)
 
     if tier is not None:
         overrides = tiers[tier]
@@ -74,6 +79,8 @@ def _validated_fields(path, raw, tier, cells_override):
 
     frequencies = band_frequencies(band)
     frequencies.setflags(write=False)
+    if range_distances:  # the 3D FDTD post-processing evaluates the range gain (sim/range_gain.py)
+        fdtd_fields["extra"] = dict(fdtd_fields.get("extra") or {}, range_distances_m=tuple(range_distances))
     fdtd = FdtdSettings(**fdtd_fields)
 
     warnings = [f"{path}: {key}: {reason}" for key, reason in
@@ -86,7 +93,8 @@ def _validated_fields(path, raw, tier, cells_override):
                 fdtd=fdtd, checks=checks, check_model=check_model, sweep=sweep, tiers=tiers,
                 sha256=_variant_sha256(raw, tier, cells_override),
                 warnings=tuple(dict.fromkeys(warnings)), raw=raw, tier=tier,
-                cells_override=tuple(cells_override) if cells_override is not None else None)
+                cells_override=tuple(cells_override) if cells_override is not None else None,
+                wall=wall, range_distances=range_distances, tolerance=tolerance)
 
 
 def _centre_frequency(frequencies):

@@ -26,6 +26,7 @@ from .ladder import FORMAL_ORDER, fdtd_figures, ladder_convergence, run_fdtd_lad
 from .grid_plan import combine_uncertainty, fitted_ladder, geometry_residual
 from .messages import is_writer, say
 from .predict import predict_case
+from .range_and_shop import add_range_and_shop
 from .refine import RefinementGoal, refine
 from .result_folder import draw_model_image, move_model_image, write_result_files
 from .sidelobe_match import add_feature_notes, matched_sidelobes
@@ -281,6 +282,7 @@ def evaluate_case(case, *, force=False, ladder=None, progress=None, goal=None, l
         ladder = [fit.cells_per_wavelength for fit in fits]
     summary["models"]["fdtd"], convergence = fdtd_model_block(case, sim_results, ladder,
                                                               geometry_residual(case, fits))
+    add_range_and_shop(case, summary, sim_results, ladder)  # wall loss, finite range, tolerances: only if the case asks
     summary["comparison"] = comparison(case, summary["models"], models, sim_results, ladder, convergence)
     summary["solver"] = solver_block(case, sim_results, ladder, time.monotonic() - started)
     summary["solver"]["nominal_cells_per_wavelength"] = [fit.nominal_cells_per_wavelength for fit in fits]
@@ -336,11 +338,13 @@ def publish(out_dir, case, summary, models, sim_results, ladder, convergence, im
     """Write every output into a staging folder, then swap it into place (``publish_folder``)."""
     # lazy: the report builder loads its templates and matplotlib (slow) only when a folder is written
     from ..report.html import build_report
+    from ..report.range_shop_plots import write_tolerance_plot
     from ..report.verify_plots import write_verify_plots
 
     def write(staging):
         write_result_files(staging, case, summary, sim_results, ladder)
         write_verify_plots(staging, case, summary, models, sim_results, ladder, convergence)
+        write_tolerance_plot(staging, summary)
         move_model_image(image, staging)
         build_report(staging)
 

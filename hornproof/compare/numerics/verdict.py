@@ -296,11 +296,15 @@ def comparison_block(frequencies, models, tolerances, fdtd_uncertainties=None, *
         if metric not in COMPARED_FIGURES:
             raise ValueError(f"tolerances: unknown metric {metric!r} (known: {sorted(COMPARED_FIGURES)})")
         key, label, unit = COMPARED_FIGURES[metric]
-        # Realized gain: only FDTD has it; the analytic models are lossless and matched, so
-        # their directivity is their realized gain.
-        analytic_key = "directivity_dbi" if key == "realized_gain_dbi" else key
-        closed_form = _column(models.get("closed_form"), analytic_key, nf)
-        exact_phase = _column(models.get("exact_phase"), analytic_key, nf)
+        # Realized gain: only FDTD has it; the analytic models are matched, so their gain is
+        # their realized gain: directivity less the wall loss when the case names a wall metal
+        # (``gain_dbi``, jobs/wall_loss_block.py), else directivity (lossless walls).
+        def analytic_key(name):
+            if key != "realized_gain_dbi":
+                return key
+            return "gain_dbi" if "gain_dbi" in (models.get(name) or {}) else "directivity_dbi"
+        closed_form = _column(models.get("closed_form"), analytic_key("closed_form"), nf)
+        exact_phase = _column(models.get("exact_phase"), analytic_key("exact_phase"), nf)
         fdtd = _column(models.get("fdtd"), key, nf)
         fdtd_uncertainty = np.broadcast_to(np.asarray(
             [np.nan if v is None else v for v in np.atleast_1d(fdtd_uncertainties.get(metric, np.nan)).tolist()],
