@@ -464,7 +464,7 @@ def test_sweep_parameter_table_says_what_horn_at_does(parameter):
 # --- the shipped cases ---------------------------------------------------------------------
 
 SHIPPED = ("demo-h-sectoral", "e-sectoral", "pyramidal", "short-wide-flare", "gentle-long",
-           "sweep-h-flare")
+           "sweep-h-flare", "sweep-h-flare-3d")
 
 
 def centre(case):
@@ -523,9 +523,11 @@ def test_gentle_long_is_where_quadratic_phase_holds():
                - float(case.horn.exact_edge_path_h(centre(case)))) < 0.01
 
 
-def test_sweep_case_spans_small_to_large_phase_error():
-    case = load_case(CASES / "sweep-h-flare.toml")
-    assert case.sweep.parameter == "flare_half_angle_h_deg" and case.sweep.dims == 2
+@pytest.mark.parametrize("name, dims", [("sweep-h-flare", 2), ("sweep-h-flare-3d", 3)])
+def test_sweep_case_spans_small_to_large_phase_error(name, dims):
+    case = load_case(CASES / f"{name}.toml")
+    assert case.sweep.parameter == "flare_half_angle_h_deg" and case.sweep.dims == dims
+    assert case.sweep.principal_plane == (dims == 3)  # the 3D case shows the 2D look beside it
     assert len(case.sweep.values) >= 8
     f = centre(case)
     errors = [float(horn.phase_error_h(f)) for _, horn in case.sweep.horns(case.horn)]
