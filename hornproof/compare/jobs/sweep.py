@@ -13,13 +13,14 @@ convergence index, combined by root-sum-square with the finest grid's power-bala
 * aperture-model error = exact phase − FDTD (uncertainty = the FDTD one).
 
 The breakdown threshold of each is the first swept value where |error| − uncertainty exceeds
-the tolerance (``verdict.breakdown_threshold``). Finished points are cached by a content hash
-of everything that defines them (``points/<hash>.json``, written atomically), so a killed sweep
-rerun recomputes nothing it already finished.
+the tolerance (``verdict.breakdown_threshold``). The FDTD points run in the point pool
+(:mod:`.point_pool`): in parallel process groups under ``mpirun``, each cached in a verified
+``points/<hash>.json`` as it finishes, so a killed sweep rerun recomputes nothing it already
+finished; a failed point is listed in ``failed_points`` with its reason (NaN figures) and the
+sweep exits with status 3 only when every FDTD point failed.
 """
 
 import dataclasses
-import json
 import time
 from dataclasses import dataclass
 from pathlib import Path
@@ -27,14 +28,9 @@ from pathlib import Path
 import numpy as np
 
 from ...analytic.predict import predict
-from ...atomic import write_text_atomic
-from ...errors import InputError
-from ...hashing import content_sha256
-from ...sim import run as fdtd_run
-from ...sim.grid_fit import fit_ladder, flared_plane
+from ...errors import InputError, RunError
 from ...sim.solver import meep_version
 from ...version import build_version
-from ..numerics.convergence import grid_convergence
 from ..numerics.figures import directivity_key
 from ..numerics.metrics import band_centre_index
 from ..numerics.verdict import breakdown_threshold
@@ -42,19 +38,15 @@ from ..case.sweepspec import PARAMETER_LABELS
 from ..output.json_document import jsonable
 from ..output.summary import SAFETY_NOTE
 from ..output.sweep_json import SWEEP_SCHEMA, write_sweep_json
-from ..numerics.power_balance import power_balance_uncertainty_db, root_sum_square
-from .ladder import fdtd_figures
 from .messages import is_writer, say
+from .point_cost import point_cost
+from .point_pool import PointTask, every_point_failed, run_points
 
 
 #: default grids of a sweep point, relative to the case's sweep.cells_per_wavelength: three
 #: grids give a GCI with an observed order (Celik et al. 2008); two grids force the assumed
 #: order and safety factor 3, which in a development run here hid every breakdown
 GRID_RATIOS = (1.0, 1.4, 2.0)
-
-
-#: hex digits of a sweep point's content hash (its cache file name)
-POINT_KEY_LENGTH = 20
 
 
 @dataclass
@@ -74,50 +66,6 @@ class SweepPoint:
     fdtd_uncertainty: float = float("nan")
     seconds: float | None = None  # FDTD run time over the point's grids (None: no FDTD)
     cached: bool | None = None  # FDTD figures read from the point cache (None: no FDTD)
-
-
-def point_key(horn, frequencies, settings, ladder):
-    """Content hash of one sweep point: the horn, band, FDTD settings, grids and versions."""
-    definition = {
-        "horn": dataclasses.asdict(horn),
-        "frequencies_hz": [float(f) for f in frequencies],
-        "settings": jsonable(dataclasses.asdict(settings)),
-        "cells_per_wavelength": [float(c) for c in ladder],
-        "hornproof": build_version(),
-        "meep": meep_version(),
-    }
-    return content_sha256(definition, POINT_KEY_LENGTH)
-
-
-def run_point(horn, frequencies, settings, ladder, force):
-    """FDTD figures of one sweep point on every grid of ``ladder`` (each rung fitted to this
-    point's horn, :func:`hornproof.sim.grid_fit.fit_ladder`), JSON-ready."""
-    fits = fit_ladder(horn, float(np.max(frequencies)), int(settings.dims), list(ladder),
-                      plane=flared_plane(horn, settings.dims))
-    ladder = [fit.cells_per_wavelength for fit in fits]
-    results = [fdtd_run.simulate(horn, frequencies, settings, float(c), force=force) for c in ladder]
-    figures = [fdtd_figures(r) for r in results]
-    key = directivity_key(settings.dims)
-    values = np.array([[np.nan if v is None else v for v in f[key]] for f in figures])
-    finest = int(np.argmax(ladder))
-    point = {"directivity": values[finest].tolist(), "directivity_per_grid": values.tolist(),
-             "hpbw_h_deg": figures[finest].get("hpbw_h_deg"), "hpbw_e_deg": figures[finest].get("hpbw_e_deg"),
-             "power_balance_error": figures[finest].get("power_balance_error"),
-             "seconds": [r.run.get("seconds_total") for r in results],
-             "cells_per_wavelength": ladder,
-             "worst_size_residual_percent": [100.0 * fit.worst_relative_residual for fit in fits],
-             "wall_thickness_modelled_mm": results[finest].run.get("wall_thickness_modelled_m", np.nan) * 1e3}
-    if len(ladder) > 1:
-        found = grid_convergence(values, cells_per_wavelength=ladder, formal_order=1.0)
-        point["uncertainty_ladder"] = [e.uncertainty for e in found]
-        # with the finest grid's power-balance term, as in verify (numerics.power_balance)
-        point["uncertainty"] = root_sum_square(point["uncertainty_ladder"],
-                                               power_balance_uncertainty_db(point["power_balance_error"])).tolist()
-        point["convergence_status"] = [e.status for e in found]
-    else:
-        point["uncertainty"] = [np.nan] * values.shape[1]
-        point["convergence_status"] = ["single"] * values.shape[1]
-    return jsonable(point)
 
 
 def sweep_grids(case, dims=None, ladder=None):
@@ -146,38 +94,6 @@ def analytic_point(value, horn, frequencies, centre, dims):
                       phase_error_e=float(horn.phase_error_e(frequencies[centre])))
 
 
-def read_cached_point(path):
-    """A finished point's FDTD figures from the cache, or None (missing or unreadable: an
-    unreadable cache entry is recomputed, never trusted)."""
-    if not path.is_file():
-        return None
-    try:
-        return json.loads(path.read_text())
-    except (OSError, json.JSONDecodeError):
-        return None
-
-
-def add_fdtd(point, horn, run, centre, label, log):
-    """Fill the FDTD directivity, uncertainty and run time of ``point`` at the band centre, from
-    the cache of finished points or by running the grids (then cached)."""
-    path = run["points_dir"] / f"{point_key(horn, run['frequencies'], run['settings'], run['ladder'])}.json"
-    figures = read_cached_point(path)
-    point.cached = figures is not None
-    if figures is None:
-        log(f"{label} (S = {point.phase_error_h:.3f}, T = {point.phase_error_e:.3f} wavelengths)")
-        figures = run_point(horn, run["frequencies"], run["settings"], run["ladder"], run["force"])
-        figures["parameter"] = run["parameter"]
-        figures["value"] = point.value
-        if is_writer():
-            write_text_atomic(path, json.dumps(figures, indent=1) + "\n")
-    else:
-        log(f"{label} (cached)")
-    point.fdtd = np.nan if figures["directivity"][centre] is None else figures["directivity"][centre]
-    uncertainty = figures["uncertainty"][centre]
-    point.fdtd_uncertainty = np.nan if uncertainty is None else uncertainty
-    point.seconds = sum(s or 0 for s in figures.get("seconds", []))
-
-
 def run_sweep(case, out_dir, *, dims=None, ladder=None, analytic_only=False, force=False, log=None):
     """Run (or resume) the sweep of ``case``; returns the ``hornproof.sweep/1`` document."""
     log = log or say
@@ -190,22 +106,42 @@ def run_sweep(case, out_dir, *, dims=None, ladder=None, analytic_only=False, for
     freqs = np.asarray(case.frequencies, dtype=float)
     centre = band_centre_index(freqs)
     out_dir = Path(out_dir)
-    run = {"points_dir": out_dir / "points", "frequencies": freqs, "settings": settings, "ladder": ladder,
-           "force": force, "parameter": spec.parameter}
     if is_writer():
-        run["points_dir"].mkdir(parents=True, exist_ok=True)
+        out_dir.mkdir(parents=True, exist_ok=True)
     started = time.monotonic()
-    points = []
-    for index, (value, horn) in enumerate(horns, start=1):
-        point = analytic_point(value, horn, freqs, centre, dims)
-        if not analytic_only:
-            label = f"hornproof: sweep point {index}/{len(horns)}: {spec.parameter} = {value:g}"
-            add_fdtd(point, horn, run, centre, label, log)
-        points.append(point)
+    points = [analytic_point(value, horn, freqs, centre, dims) for value, horn in horns]
+    outcomes = []
+    if not analytic_only:
+        tasks = [PointTask(horn, f"hornproof: sweep point {index}/{len(horns)}: {spec.parameter} = {value:g} "
+                                 f"(S = {point.phase_error_h:.3f}, T = {point.phase_error_e:.3f} wavelengths)",
+                           {spec.parameter: value}, point_cost(horn, freqs, settings, ladder))
+                 for index, ((value, horn), point) in enumerate(zip(horns, points), start=1)]
+        outcomes = run_points(tasks, frequencies=freqs, settings=settings, ladder=ladder,
+                              points_dir=out_dir / "points", force=force, log=log)
+        for point, outcome in zip(points, outcomes):
+            fill_fdtd(point, outcome, centre)
     document = sweep_document(case, points, horns, dims, ladder, analytic_only, time.monotonic() - started)
+    document["failed_points"] = [{"value": point.value, "reason": outcome.reason}
+                                 for point, outcome in zip(points, outcomes) if outcome.status == "failed"]
     if is_writer():
         write_sweep_folder(out_dir, document)
+    if every_point_failed(outcomes):
+        raise RunError(f"{case.path}: every FDTD point of the sweep failed (first: {outcomes[0].reason}); "
+                       f"the analytic results are in {out_dir}")
     return document
+
+
+def fill_fdtd(point, outcome, centre):
+    """The FDTD directivity, uncertainty and run time of ``point`` at the band centre from its
+    pool outcome (NaN for a failed point; ``cached`` None then)."""
+    point.cached = {"cached": True, "computed": False}.get(outcome.status)
+    if outcome.figures is None:
+        return
+    figures = outcome.figures
+    point.fdtd = np.nan if figures["directivity"][centre] is None else figures["directivity"][centre]
+    uncertainty = figures["uncertainty"][centre]
+    point.fdtd_uncertainty = np.nan if uncertainty is None else uncertainty
+    point.seconds = sum(s or 0 for s in figures.get("seconds", []))
 
 
 def error_split(points, tolerance, analytic_only):

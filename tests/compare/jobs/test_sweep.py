@@ -19,7 +19,8 @@ import pytest
 
 from hornproof.compare.case.casefile import load_case
 from hornproof.analytic.geometry import HornGeometry
-from hornproof.compare.jobs.sweep import point_key, run_point, run_sweep, sweep_grids
+from hornproof.compare.jobs.point_pool import point_key, run_point
+from hornproof.compare.jobs.sweep import run_sweep, sweep_grids
 from hornproof.sim.settings import FdtdSettings
 
 ROOT = Path(__file__).resolve().parents[3]
