@@ -11,6 +11,7 @@ from .band_table import band_frequencies, check_band_against_guide, guide_warnin
 from .checks_table import read_checks
 from .fdtd_table import grid_warnings, read_fdtd
 from .horn_table import read_horn
+from .map_table import read_map
 from .sweep_table import read_sweep
 from .tiers_table import read_tiers
 from .values import CaseProblem, check_keys, describe_value, input_error, read_table
@@ -18,7 +19,7 @@ from .values import CaseProblem, check_keys, describe_value, input_error, read_t
 #: The case-file format this package reads.
 FORMAT_VERSION = 1
 
-TOP_KEYS = ("format", "title", "horn", "band", "fdtd", "checks", "sweep", "tiers")
+TOP_KEYS = ("format", "title", "horn", "band", "fdtd", "checks", "sweep", "tiers", "map")
 
 
 def case_fields(path, raw, *, tier=None, cells_override=None):
@@ -59,6 +60,7 @@ def _validated_fields(path, raw, tier, cells_override):
     sweep = read_sweep(read_table(raw, "sweep", required=False), horn, fdtd_fields)
     tiers = read_tiers(read_table(raw, "tiers", required=False), horn, band, fdtd_fields,
                        quick_2d)
+    map_spec = read_map(read_table(raw, "map", required=False), horn)
 
     if tier is not None:
         overrides = tiers[tier]
@@ -84,7 +86,8 @@ def _validated_fields(path, raw, tier, cells_override):
                 fdtd=fdtd, checks=checks, check_model=check_model, sweep=sweep, tiers=tiers,
                 sha256=_variant_sha256(raw, tier, cells_override),
                 warnings=tuple(dict.fromkeys(warnings)), raw=raw, tier=tier,
-                cells_override=tuple(cells_override) if cells_override is not None else None)
+                cells_override=tuple(cells_override) if cells_override is not None else None,
+                map=map_spec)
 
 
 def _variant_sha256(raw, tier, cells_override):

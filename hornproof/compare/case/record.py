@@ -49,6 +49,8 @@ class Case:
         The tier applied by :meth:`for_tier`, None for the case as written.
     cells_override : tuple or None
         The ladder set by :meth:`with_cells`, None when the case's own ladder is used.
+    map : MapSpec or None
+        The case's ``[map]`` (two swept parameters), None without one.
     """
 
     path: Path
@@ -66,6 +68,7 @@ class Case:
     raw: dict
     tier: str = None
     cells_override: tuple = None
+    map: object = None
 
     @classmethod
     def from_definition(cls, path, raw, *, tier=None, cells_override=None):

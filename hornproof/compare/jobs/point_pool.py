@@ -254,7 +254,7 @@ def _run_in_group(communicator, tasks, mine, keys, run, log, where):
         task = tasks[index]
         master = communicator.rank == 0
         if master:
-            log(f"{where}[{count}/{len(mine)}] {task.label}: running")
+            log(f"hornproof: {where}[{count}/{len(mine)}] {task.label}: running")
         started = time.monotonic()
         figures, error = _attempt(run["runner"], task, run["frequencies"], run["settings"], run["ladder"],
                                   run["force"])
@@ -264,7 +264,7 @@ def _run_in_group(communicator, tasks, mine, keys, run, log, where):
             problems = [e for e in errors if e is not None]
             if problems:
                 reason, detail = problems[0]
-                log(f"{where}{task.label}: failed: {reason}")
+                log(f"hornproof: {where}{task.label}: failed: {reason}")
                 if detail:
                     log(detail.rstrip())
                 done[index] = PointOutcome(keys[index], "failed", None, reason, seconds)
@@ -272,7 +272,7 @@ def _run_in_group(communicator, tasks, mine, keys, run, log, where):
                 path = run["points_dir"] / f"{keys[index][:POINT_KEY_LENGTH]}.json"
                 write_point(path, keys[index], figures, task.about)
                 done[index] = PointOutcome(keys[index], "computed", jsonable(figures), "", seconds)
-                log(f"{where}{task.label}: done in {seconds:.0f} s")
+                log(f"hornproof: {where}{task.label}: done in {seconds:.0f} s")
         communicator.Barrier()
     return done
 
@@ -320,7 +320,7 @@ def run_points(tasks, *, frequencies, settings, ladder, points_dir, force=False,
             path = points_dir / f"{key[:POINT_KEY_LENGTH]}.json"
             figures, problem = read_point(path, key, len(frequencies), len(ladder))
             if problem:
-                log(f"{task.label}: cached point {path.name} not used ({problem}); recomputing")
+                log(f"hornproof: {task.label}: cached point {path.name} not used ({problem}); recomputing")
             outcomes.append(PointOutcome(key, "cached", figures) if figures is not None else None)
     outcomes = world.bcast(outcomes, root=0)
     to_run = [i for i, outcome in enumerate(outcomes) if outcome is None]

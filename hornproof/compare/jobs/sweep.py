@@ -112,7 +112,7 @@ def run_sweep(case, out_dir, *, dims=None, ladder=None, analytic_only=False, for
     points = [analytic_point(value, horn, freqs, centre, dims) for value, horn in horns]
     outcomes = []
     if not analytic_only:
-        tasks = [PointTask(horn, f"hornproof: sweep point {index}/{len(horns)}: {spec.parameter} = {value:g} "
+        tasks = [PointTask(horn, f"sweep point {index}/{len(horns)}: {spec.parameter} = {value:g} "
                                  f"(S = {point.phase_error_h:.3f}, T = {point.phase_error_e:.3f} wavelengths)",
                            {spec.parameter: value}, point_cost(horn, freqs, settings, ladder))
                  for index, ((value, horn), point) in enumerate(zip(horns, points), start=1)]

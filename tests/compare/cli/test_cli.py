@@ -153,6 +153,7 @@ def test_help_matches_the_documented_options():
         "simulate": ["--cells-per-wavelength", "--out", "--json", "--image", "--force"],
         "verify": ["--cells-per-wavelength", "--target-uncertainty", "--budget", "--out", "--json", "--force"],
         "sweep": ["--cells-per-wavelength", "--dims", "--analytic-only", "--out"],
+        "map": ["--analytic-only", "--budget-hours", "--out", "--json", "--force"],
         "regress": ["--tier", "--update", "--junit", "--baselines", "--fresh"],
         "report": [],
     }
