@@ -47,7 +47,7 @@ from ..numerics.power_balance import power_balance_uncertainty_db, root_sum_squa
 from ..output.json_document import jsonable
 from ..regress.plan import plan_process_groups
 from .ladder import fdtd_figures
-from .messages import say
+from .messages import is_writer, say
 
 __all__ = ["POINT_SCHEMA", "POINT_KEY_LENGTH", "PointTask", "PointOutcome", "point_definition", "point_key",
            "run_point", "write_point", "read_point", "point_shape_problem", "run_points", "every_point_failed"]
@@ -270,7 +270,8 @@ def _run_in_group(communicator, tasks, mine, keys, run, log, where):
                 done[index] = PointOutcome(keys[index], "failed", None, reason, seconds)
             else:
                 path = run["points_dir"] / f"{keys[index][:POINT_KEY_LENGTH]}.json"
-                write_point(path, keys[index], figures, task.about)
+                if is_writer():  # one writer also when a caller's group runs the pool as one job
+                    write_point(path, keys[index], figures, task.about)
                 done[index] = PointOutcome(keys[index], "computed", jsonable(figures), "", seconds)
                 log(f"hornproof: {where}{task.label}: done in {seconds:.0f} s")
         communicator.Barrier()
