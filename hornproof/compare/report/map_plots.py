@@ -124,10 +124,18 @@ def plot_fdtd_error_map(path_stem, document, kind):
                     bbox={"boxstyle": "round,pad=0.15", "facecolor": "white", "edgecolor": "none", "alpha": 0.8})
     fig.colorbar(points, ax=ax, label=f"{ERROR_TITLES[kind].split(' (')[0].lower()} (dB)")
     _axes_labels(ax, document)
+    _room_for_labels(ax, x, y)
     note = "; ".join(drawn) if drawn else f"no contour: the points do not cross {tolerance:g} dB"
     ax.set_title(f"{document['title']}\n{ERROR_TITLES[kind]} at {document['frequency_ghz']:.3g} GHz "
-                 f"({document['model'].split(' (')[0]}); {note}", loc="left", fontsize=8)
+                 f"({document['model'].split(' (')[0]})\n{note}", loc="left", fontsize=8)
     return save_figure(fig, path_stem)
+
+
+def _room_for_labels(ax, x, y):
+    """Axis limits a little beyond the FDTD points, so markers and their labels stay inside."""
+    for values, setter, low, high in ((x, ax.set_xlim, 0.06, 0.22), (y, ax.set_ylim, 0.08, 0.12)):
+        span = float(np.max(values) - np.min(values)) or 1.0
+        setter(float(np.min(values)) - low * span, float(np.max(values)) + high * span)
 
 
 def write_map_plots(folder, document):

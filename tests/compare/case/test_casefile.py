@@ -460,7 +460,7 @@ def test_sweep_parameter_table_says_what_horn_at_does(parameter):
 # --- the shipped cases ---------------------------------------------------------------------
 
 SHIPPED = ("demo-h-sectoral", "e-sectoral", "pyramidal", "short-wide-flare", "gentle-long",
-           "sweep-h-flare")
+           "sweep-h-flare", "map-h-flare")
 
 
 def centre(case):
