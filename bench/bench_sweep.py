@@ -30,7 +30,6 @@ noisier): the load average is printed before and after each part.
 """
 
 import argparse
-import dataclasses
 import json
 import math
 import os
@@ -106,6 +105,10 @@ def part_pool(args, scratch):
     ladder = [12.0] if args.small else [float(default_ladder(h_sectoral(10, 0.04), FREQUENCY, 3)[0])]
     print(f"\n[pool] {len(angles)} 3D points (WR-90 H-plane sectoral, L = 40 mm, {angles} deg), "
           f"nominal rung {ladder[0]:g} cells per wavelength; {load()}")
+    from hornproof.compare.regress.plan import plan_process_groups
+
+    plan = plan_process_groups([float(a) for a in angles], 2)
+    print(f"  the pool's plan on 2 ranks: {len(plan)} process group(s), points {plan}")
     reports = {}
     for processes in (1, 2):
         spec = {"angles": angles, "length": 0.04, "ladder": ladder,
@@ -150,7 +153,7 @@ def part_pml(args):
         horn, what = h_sectoral(55, 0.06), "shipped flare sweep's widest member in 3D (55 deg, 60 mm)"
     cells = fit_grid(horn, FREQUENCY, 3, default_ladder(horn, FREQUENCY, 3)[0]).cells_per_wavelength
     variants = [("default", 0.5, 0.3), ("lean", 0.35, 0.15), ("thin PML", 0.25, 0.3),
-                ("reference (thick)", 1.0, 0.6)]
+                ("thin PML, lean pad", 0.25, 0.1), ("reference (thick)", 1.0, 0.6)]
     print(f"\n[pml] {what}, A = {horn.aperture_a * 1e3:.1f} mm; fitted rung {cells:.2f} cells per wavelength; "
           f"{load()}")
     measured = {}
@@ -158,11 +161,14 @@ def part_pml(args):
         settings = FdtdSettings(dims=3, pml_wavelengths=pml, padding_wavelengths=padding, pattern_step_deg=2.0)
         layout = plan_layout(horn, np.array([FREQUENCY]), settings, cells)
         pml_share, padding_share = shares(layout)
+        box = math.prod(2 * h for h in layout.box_half) * (layout.box_z[1] - layout.box_z[0])
+        outside_box = 1 - box / math.prod(layout.cell_size)
         directivity, seconds = directivity_at(horn, settings, cells)
         measured[name] = directivity
         print(f"  {name:18s} pml {pml:.2f} wl, padding {padding:.2f} wl: PML {100 * pml_share:.1f} % + padding "
               f"{100 * padding_share:.1f} % = {100 * (pml_share + padding_share):.1f} % of the cells "
-              f"(target <= {100 * TARGET_SHARE:.0f} %); D = {directivity:.3f} dBi in {seconds:.0f} s")
+              f"(target <= {100 * TARGET_SHARE:.0f} %; outside the near-to-far box {100 * outside_box:.1f} %); "
+              f"D = {directivity:.3f} dBi in {seconds:.0f} s")
     reference = measured["reference (thick)"]
     for name, _, _ in variants[:-1]:
         change = measured[name] - reference
