@@ -49,6 +49,8 @@ def format_sweep(document):
         text = ("never within the sweep" if where is None else "already at the first value" if where == "below range"
                 else f"{where:.3g} {p['unit']}")
         lines.append(f"  breakdown of the {key.replace('_', ' ')}: {text}")
+    for failed in document.get("failed_points") or []:
+        lines.append(f"  FDTD failed at {failed['value']:g} {p['unit']}: {failed['reason']}")
     for name, best in (document.get("optimum") or {}).items():
         lines.append(f"  {name.replace('_', ' ')} peaks at {best['value']:.3g} {p['unit']} "
                      f"(S = {best['phase_error_h_wl']:.3f}, T = {best['phase_error_e_wl']:.3f} wavelengths)"

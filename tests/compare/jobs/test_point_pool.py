@@ -8,6 +8,7 @@ are covered by tests/compare/jobs/test_sweep.py.
 """
 
 import json
+import math
 import os
 import subprocess
 import sys
@@ -232,3 +233,34 @@ def test_points_are_spread_over_process_groups_under_mpirun(tmp_path):
     ranks = lines[0]["ranks"]
     assert set(ranks[:3]) == {0, 1}, ranks  # both groups ran points
     assert len(list((tmp_path / "points").glob("*.json"))) == 3
+
+
+def test_a_sweep_lists_a_failed_point_and_goes_on(tmp_path, monkeypatch):
+    # the sweep's FDTD points go through the pool: a failing point is listed with its reason,
+    # its FDTD figure is missing (NaN -> null) and the other points are kept
+    from hornproof.compare.case.casefile import load_case
+    from hornproof.compare.cli.sweep import format_sweep
+    from hornproof.compare.jobs import sweep
+
+    case_file = tmp_path / "sweep.toml"
+    case_file.write_text((ROOT / "cases" / "sweep-h-flare.toml").read_text().replace(
+        "values = [10, 15, 20, 25, 30, 35, 40, 45, 50, 55]", "values = [10, 20, 30]"))
+    case = load_case(case_file)
+
+    def fake(horn, frequencies, settings, ladder, force):
+        if round(math.degrees(horn.flare_half_angle_h)) == 20:
+            raise RunError("the FDTD run diverged (fake)")
+        return {"directivity": [10.0], "uncertainty": [0.1], "directivity_per_grid": [[10.0]] * len(ladder),
+                "cells_per_wavelength": list(ladder), "seconds": [1.0] * len(ladder)}
+
+    real = sweep.run_points
+    monkeypatch.setattr(sweep, "run_points", lambda tasks, **kw: real(tasks, **dict(kw, runner=fake)))
+    doc = sweep.run_sweep(case, tmp_path / "out", log=lambda m: None)
+    assert doc["models"]["fdtd"] == [10.0, None, 10.0]
+    assert doc["failed_points"] == [{"value": 20.0, "reason": "the FDTD run diverged (fake)"}]
+    assert "FDTD failed at 20 deg: the FDTD run diverged (fake)" in format_sweep(doc)
+    monkeypatch.setattr(sweep, "run_points", lambda tasks, **kw: real(tasks, **dict(
+        kw, runner=lambda *a: (_ for _ in ()).throw(RunError("out of memory (fake)")))))
+    with pytest.raises(RunError, match="every FDTD point of the sweep failed"):
+        sweep.run_sweep(case, tmp_path / "out2", log=lambda m: None)
+    assert (tmp_path / "out2" / "sweep.json").is_file()  # written before the exit status 3
