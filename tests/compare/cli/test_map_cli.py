@@ -68,3 +68,17 @@ def test_out_that_is_a_file_is_refused_and_kept(tmp_path):
     done = run_cli("map", str(MAP_CASE), "--analytic-only", "--out", str(decoy))
     assert done.returncode == 2 and "not a folder" in done.stderr
     assert decoy.read_text() == "keep me"
+
+
+def test_report_rebuilds_a_map_page_and_refuses_a_foreign_map_json(tmp_path):
+    out = tmp_path / "out"
+    assert run_cli("map", str(MAP_CASE), "--analytic-only", "--out", str(out)).returncode == 0
+    (out / "report.html").unlink()
+    done = run_cli("report", str(out))
+    assert done.returncode == 0, done.stderr
+    assert (out / "report.html").is_file() and "RF" in (out / "report.html").read_text()
+    decoy = tmp_path / "decoy"  # a folder made for this test, holding a map.json of another schema
+    decoy.mkdir()
+    (decoy / "map.json").write_text('{"schema": "somebody.else/3"}')
+    done = run_cli("report", str(decoy))
+    assert done.returncode == 2 and "schema" in done.stderr and "Traceback" not in done.stderr
