@@ -52,7 +52,7 @@ def format_map(document):
              f"  {document['figure']['label']} at {document['frequency_ghz']:.3g} GHz over {x['label']} ({x['unit']}) "
              f"x {y['label']} ({y['unit']}); {document['model']}; tolerance {document['tolerance']:g} dB",
              f"  {'x':>8} {'y':>8} {'closed':>8} {'exact':>8} {'FDTD':>8} {'+-':>6} {'phase err':>9} "
-             f"{'aperture err':>12} {'total err':>9}  status"]
+             f"{'aperture err':>12} {'total err':>9}  ladder, status"]
 
     def f(v, w=8):
         return MISSING_VALUE.rjust(w) if v is None else f"{v:{w}.2f}"
@@ -60,7 +60,8 @@ def format_map(document):
     for p in document["points"]:
         lines.append(f"  {p['x']:8.3g} {p['y']:8.3g} {f(p['closed_form'])} {f(p['exact_phase'])} {f(p.get('fdtd'))} "
                      f"{f(p.get('uncertainty'), 6)} {f(p['phase_approximation_error'], 9)} "
-                     f"{f(p.get('aperture_model_error'), 12)} {f(p.get('total_error'), 9)}  {p['status']}"
+                     f"{f(p.get('aperture_model_error'), 12)} {f(p.get('total_error'), 9)}  "
+                     f"{p.get('convergence_status') or MISSING_VALUE}, {p['status']}"
                      + (f" ({p['reason']})" if p.get("reason") else ""))
     for kind in ("aperture_model", "total"):
         for row in document["breakdown"].get(kind) or []:

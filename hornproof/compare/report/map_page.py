@@ -51,7 +51,7 @@ def point_rows(document):
         rows.append({"x": number(p["x"], 1), "y": number(p["y"], 1), "closed_form": value(p["closed_form"]),
                      "exact_phase": value(p["exact_phase"]), "fdtd": fdtd,
                      "phase": value(p["phase_approximation_error"]), "aperture": value(p.get("aperture_model_error")),
-                     "total": value(p.get("total_error")),
+                     "total": value(p.get("total_error")), "ladder": p.get("convergence_status") or MISSING_VALUE,
                      "status": p["status"] + (f": {p['reason']}" if p.get("reason") else "")})
     return rows
 
