@@ -30,6 +30,7 @@ import time
 import traceback
 from dataclasses import dataclass
 from pathlib import Path
+from types import SimpleNamespace
 
 import numpy as np
 
@@ -46,6 +47,7 @@ from ..numerics.figures import directivity_key
 from ..numerics.power_balance import power_balance_uncertainty_db, root_sum_square
 from ..output.json_document import jsonable
 from ..regress.plan import plan_process_groups
+from .grid_plan import combine_uncertainty, geometry_residual
 from .ladder import fdtd_figures
 from .messages import is_writer, say
 
@@ -113,7 +115,8 @@ def run_point(horn, frequencies, settings, ladder, force):
 
     The uncertainty is the grid convergence index over the rungs (Celik et al. 2008, assumed
     first order where the ladder gives none) combined root-sum-square with the finest rung's
-    power-balance term, as in ``verify`` (:mod:`..numerics.power_balance`).
+    power-balance term (:mod:`..numerics.power_balance`) and the grid fit's size residual
+    (:func:`.grid_plan.geometry_residual`), as ``verify`` combines them.
     """
     fits = fit_ladder(horn, float(np.max(frequencies)), int(settings.dims), list(ladder),
                       plane=flared_plane(horn, settings.dims))
@@ -134,8 +137,13 @@ def run_point(horn, frequencies, settings, ladder, force):
     if len(ladder) > 1:
         found = grid_convergence(values, cells_per_wavelength=ladder, formal_order=1.0)
         point["uncertainty_ladder"] = [e.uncertainty for e in found]
-        point["uncertainty"] = root_sum_square(point["uncertainty_ladder"],
-                                               power_balance_uncertainty_db(point["power_balance_error"])).tolist()
+        with_power = root_sum_square(point["uncertainty_ladder"],
+                                     power_balance_uncertainty_db(point["power_balance_error"])).tolist()
+        # and the grid fit's size residual, root-sum-square, exactly as verify combines them
+        residual = geometry_residual(SimpleNamespace(horn=horn, frequencies=np.asarray(frequencies, dtype=float),
+                                                     fdtd=settings), fits).get(key)
+        point["geometry_residual"] = residual
+        point["uncertainty"] = combine_uncertainty([None if not np.isfinite(u) else u for u in with_power], residual)
         point["convergence_status"] = [e.status for e in found]
     else:
         point["uncertainty"] = [np.nan] * values.shape[1]

@@ -19,6 +19,7 @@ import numpy as np
 import pytest
 
 from hornproof.analytic.geometry import HornGeometry
+from hornproof.compare.case.casefile import load_case
 from hornproof.compare.jobs.point_pool import (POINT_KEY_LENGTH, POINT_SCHEMA, PointTask, every_point_failed,
                                                read_point, run_points)
 from hornproof.errors import RunError
@@ -198,6 +199,7 @@ import json, sys
 import numpy as np
 from hornproof.sim import mpi
 from hornproof.analytic.geometry import HornGeometry
+from hornproof.compare.case.casefile import load_case
 from hornproof.compare.jobs.point_pool import PointTask, run_points
 from hornproof.sim.settings import FdtdSettings
 
@@ -238,7 +240,6 @@ def test_points_are_spread_over_process_groups_under_mpirun(tmp_path):
 def test_a_sweep_lists_a_failed_point_and_goes_on(tmp_path, monkeypatch):
     # the sweep's FDTD points go through the pool: a failing point is listed with its reason,
     # its FDTD figure is missing (NaN -> null) and the other points are kept
-    from hornproof.compare.case.casefile import load_case
     from hornproof.compare.cli.sweep import format_sweep
     from hornproof.compare.jobs import sweep
 
@@ -264,3 +265,24 @@ def test_a_sweep_lists_a_failed_point_and_goes_on(tmp_path, monkeypatch):
     with pytest.raises(RunError, match="every FDTD point of the sweep failed"):
         sweep.run_sweep(case, tmp_path / "out2", log=lambda m: None)
     assert (tmp_path / "out2" / "sweep.json").is_file()  # written before the exit status 3
+
+
+@pytest.mark.fullwave
+def test_a_pool_point_equals_verify_of_the_same_horn(tmp_path):
+    # hornproof's contract: a sweep or map point is the same computation as verify of that horn
+    # on the same ladder — same directivity, same uncertainty (ladder GCI, power balance and
+    # grid-fit residual, root-sum-square) — so sweep/map figures can be checked with verify
+    from hornproof.compare.jobs.point_pool import run_point
+    from hornproof.compare.jobs.verify import verify_case
+
+    case_file = tmp_path / "one.toml"
+    case_file.write_text("# Invented scenario for a test.\nformat = 1\ntitle = \"one horn\"\n[horn]\n"
+                         "type = \"h-sectoral\"\nwaveguide = \"WR-90\"\naperture_a_mm = 60.0\nflare_length_mm = 60.0\n"
+                         "[band]\nf_min_ghz = 10.0\nf_max_ghz = 10.0\npoints = 1\n[fdtd]\ndims = 2\n"
+                         "cells_per_wavelength = [10, 13, 17]\n[checks]\ndirectivity_db = 0.5\n")
+    case = load_case(case_file)
+    summary = verify_case(case, tmp_path / "verify", progress=None)
+    point = run_point(case.horn, case.frequencies, case.fdtd, list(case.fdtd.cells_per_wavelength), False)
+    fdtd = summary["models"]["fdtd"]
+    assert point["directivity"] == pytest.approx(fdtd["directivity_2d_db"], abs=1e-12)
+    assert point["uncertainty"] == pytest.approx(fdtd["uncertainty"]["directivity_2d_db"], abs=1e-9)
