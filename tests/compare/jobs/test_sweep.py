@@ -143,7 +143,10 @@ def test_point_key_names_the_point_by_its_content(tmp_path):
 def test_point_uncertainty_adds_the_power_balance_term():
     horn = HornGeometry("h-sectoral", 22.86e-3, 10.16e-3, 60e-3, 10.16e-3, 60e-3, 1e-3)
     point = run_point(horn, np.array([10e9]), FdtdSettings(dims=2, pattern_step_deg=2.0), [10, 12], force=False)
-    # u = √(u_ladder² + (10 log10(1 + |ε|))²), hornproof's stated choice (numerics/power_balance.py)
+    # u = √(u_ladder² + (10 log10(1 + |ε|))² + u_fit²), hornproof's stated choice
+    # (numerics/power_balance.py; the grid-fit residual as verify adds it, jobs/grid_plan.py)
     term = 10 * np.log10(1 + abs(point["power_balance_error"][0]))
-    assert point["uncertainty"][0] == pytest.approx(np.hypot(point["uncertainty_ladder"][0], term), rel=1e-12)
+    residual = point["geometry_residual"][0]
+    assert point["uncertainty"][0] == pytest.approx(np.sqrt(point["uncertainty_ladder"][0] ** 2 + term ** 2
+                                                            + residual ** 2), rel=1e-12)
     assert point["uncertainty"][0] > point["uncertainty_ladder"][0]
