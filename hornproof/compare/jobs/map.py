@@ -10,8 +10,9 @@ For the case's ``[map]`` (:class:`hornproof.compare.case.mapspec.MapSpec`):
    (:mod:`.map_estimate`);
 3. the **FDTD points** — every (x, y) pair of the coarse grid on a grid-fitted ladder (the
    map's ``cells_per_wavelength``, or the default ladder: six cells across the narrowest
-   opening, ratio 1.3, three rungs), its uncertainty from the ladder's grid convergence index
-   and the power-balance term (:func:`.point_pool.run_point`), run in the point pool (process
+   opening, ratio 1.3, three rungs), its uncertainty from the ladder's grid convergence index,
+   the power-balance term and the grid-fit residual, as verify combines them
+   (:func:`.point_pool.run_point`), run in the point pool (process
    groups under ``mpirun``, verified cache in ``points/``, resumable, failed points reported);
 4. the **errors** at each FDTD point — phase approximation (closed form − exact phase),
    aperture model (exact phase − FDTD) and total (closed form − FDTD), the last two with the
@@ -182,7 +183,8 @@ def map_document(case, spec, analytic, points, ladder, estimate, analytic_only, 
         "solver": ({"name": "none (analytic only)"} if analytic_only else
                    {"name": "meep", "meep": meep_version(), "dims": dims, "cells_per_wavelength_nominal": ladder,
                     "uncertainty": "grid convergence index over the fitted rungs (Celik et al. 2008), "
-                                   "root-sum-square with the finest rung's power-balance term",
+                                   "root-sum-square with the finest rung's power-balance term and the "
+                                   "grid-fit residual (as verify)",
                     "points_computed": sum(1 for p in points if p["status"] == "computed"),
                     "points_reused": sum(1 for p in points if p["status"] == "cached"),
                     "points_failed": sum(1 for p in points if p["status"] == "failed"),
