@@ -71,13 +71,24 @@ class PointTask:
     """One point to run: its horn, a label for the log and what to store beside its figures.
 
     ``about`` (a JSON-ready dict, e.g. ``{"flare_half_angle_h_deg": 30}``) is written into the
-    cache file for people reading it; it is not part of the definition hash.
+    cache file for people reading it; it is not part of the definition hash. ``cost`` orders
+    and balances the work (estimated seconds, any common unit).
+
+    A caller whose points are defined otherwise (e.g. a whole case per point) gives
+    ``definition`` (JSON-ready; it replaces :func:`point_definition` in the hash) and ``run``
+    (``run(force) -> figures``, called instead of the pool's runner), and ``rungs`` when the
+    point's ladder has a different number of rungs from the pool's ``ladder`` (None: the
+    rung-wise lists are not checked). The figures must hold ``directivity`` and
+    ``uncertainty`` lists, one value per frequency.
     """
 
     horn: object
     label: str
     about: dict = dataclasses.field(default_factory=dict)
     cost: float = 1.0
+    definition: dict = None
+    run: object = None
+    rungs: object = "ladder"
 
 
 @dataclass
@@ -170,20 +181,23 @@ def _list_problem(figures, key, length):
 
 
 def point_shape_problem(figures, n_frequencies, n_rungs):
-    """Why ``figures`` is not the figures of a point with ``n_frequencies`` and ``n_rungs``,
-    or None when its shape is right."""
+    """Why ``figures`` is not the figures of a point with ``n_frequencies`` and ``n_rungs``
+    (None: rung-wise lists not checked, and ``directivity_per_grid`` optional), or None when
+    its shape is right."""
     if not isinstance(figures, dict):
         return f"figures: expected an object, found {type(figures).__name__}"
     for key in PER_FREQUENCY:
         problem = _list_problem(figures, key, n_frequencies)
         if problem:
             return problem
-    for key in PER_RUNG:
+    for key in PER_RUNG if n_rungs is not None else ():
         problem = _list_problem(figures, key, n_rungs)
         if problem:
             return problem
     grids = figures.get("directivity_per_grid")
-    if not isinstance(grids, list) or len(grids) != n_rungs:
+    if grids is None and "directivity_per_grid" not in figures and n_rungs is None:
+        return None
+    if not isinstance(grids, list) or (n_rungs is not None and len(grids) != n_rungs):
         return f"figures.directivity_per_grid: expected {n_rungs} rungs"
     for index, row in enumerate(grids):
         if not isinstance(row, list) or len(row) != n_frequencies or not all(_is_number_or_null(v) for v in row):
@@ -236,6 +250,8 @@ def _one_line(text):
 def _attempt(runner, task, frequencies, settings, ladder, force):
     """``(figures, None)`` or ``(None, (reason, traceback text))``."""
     try:
+        if task.run is not None:
+            return task.run(force), None
         return runner(task.horn, frequencies, settings, ladder, force), None
     except HornproofError as error:
         return None, (_one_line(error), "")
@@ -320,14 +336,16 @@ def run_points(tasks, *, frequencies, settings, ladder, points_dir, force=False,
     frequencies = np.asarray(frequencies, dtype=float)
     points_dir = Path(points_dir)
     ladder = [float(c) for c in ladder]
-    keys = [content_sha256(point_definition(t.horn, frequencies, settings, ladder)) for t in tasks]
+    keys = [content_sha256(t.definition if t.definition is not None
+                           else point_definition(t.horn, frequencies, settings, ladder)) for t in tasks]
     outcomes = None
     if world.rank == 0:
         points_dir.mkdir(parents=True, exist_ok=True)
         outcomes = []
         for task, key in zip(tasks, keys):
             path = points_dir / f"{key[:POINT_KEY_LENGTH]}.json"
-            figures, problem = read_point(path, key, len(frequencies), len(ladder))
+            rungs = len(ladder) if task.rungs == "ladder" else task.rungs
+            figures, problem = read_point(path, key, len(frequencies), rungs)
             if problem:
                 log(f"hornproof: {task.label}: cached point {path.name} not used ({problem}); recomputing")
             outcomes.append(PointOutcome(key, "cached", figures) if figures is not None else None)

@@ -286,3 +286,32 @@ def test_a_pool_point_equals_verify_of_the_same_horn(tmp_path):
     fdtd = summary["models"]["fdtd"]
     assert point["directivity"] == pytest.approx(fdtd["directivity_2d_db"], abs=1e-12)
     assert point["uncertainty"] == pytest.approx(fdtd["uncertainty"]["directivity_2d_db"], abs=1e-9)
+
+
+def test_a_point_with_its_own_definition_and_run(tmp_path):
+    # a caller whose point is a whole case hands the pool its own definition and run
+    runs = []
+
+    def run_case(force):
+        runs.append(force)
+        return {"directivity": [12.5], "uncertainty": [None], "ladder": ["monotone"]}
+
+    def tasks(value):
+        return [PointTask(horn(60), "own point", definition={"case": "x", "value": value}, run=run_case, rungs=None)]
+
+    common = dict(frequencies=[10e9], settings=SETTINGS, ladder=LADDER, points_dir=tmp_path / "points",
+                  log=lambda m: None, runner=FakeSolver())
+    (first,) = run_points(tasks(1), **common)
+    assert first.status == "computed" and first.figures["directivity"] == [12.5] and runs == [False]
+    (again,) = run_points(tasks(1), **common)
+    assert again.status == "cached" and runs == [False]
+    (other,) = run_points(tasks(2), **common)  # another definition: another point
+    assert other.status == "computed" and runs == [False, False]
+    path = next(p for p in (tmp_path / "points").glob("*.json")
+                if json.loads(p.read_text())["definition_sha256"] == content_sha256({"case": "x", "value": 1}))
+    document = json.loads(path.read_text())
+    document["figures"]["directivity"] = [99.0]
+    path.write_text(json.dumps(document))
+    messages = []
+    (edited,) = run_points(tasks(1), **dict(common, log=messages.append))
+    assert edited.status == "computed" and any("figures_sha256" in m for m in messages)
