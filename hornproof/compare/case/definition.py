@@ -13,6 +13,7 @@ from .checks_table import read_checks
 from .fdtd_table import grid_warnings, read_fdtd
 from .horn_table import read_horn, read_wall
 from .range_table import read_range
+from .map_table import read_map
 from .sweep_table import read_sweep
 from .tiers_table import read_tiers
 from .tolerance_table import read_tolerance
@@ -21,7 +22,7 @@ from .values import CaseProblem, check_keys, describe_value, input_error, read_t
 #: The case-file format this package reads.
 FORMAT_VERSION = 1
 
-TOP_KEYS = ("format", "title", "horn", "band", "fdtd", "checks", "sweep", "tiers", "range", "tolerance")
+TOP_KEYS = ("format", "title", "horn", "band", "fdtd", "checks", "sweep", "tiers", "range", "tolerance", "map")
 
 
 def case_fields(path, raw, *, tier=None, cells_override=None):
@@ -66,6 +67,7 @@ def _validated_fields(path, raw, tier, cells_override):
                        quick_2d)
     range_distances = read_range(read_table(raw, "range", required=False))
     tolerance = read_tolerance(read_table(raw, "tolerance", required=False), horn)
+    map_spec = read_map(read_table(raw, "map", required=False), horn)
 
     if tier is not None:
         overrides = tiers[tier]
@@ -94,7 +96,7 @@ def _validated_fields(path, raw, tier, cells_override):
                 sha256=_variant_sha256(raw, tier, cells_override),
                 warnings=tuple(dict.fromkeys(warnings)), raw=raw, tier=tier,
                 cells_override=tuple(cells_override) if cells_override is not None else None,
-                wall=wall, range_distances=range_distances, tolerance=tolerance)
+                wall=wall, range_distances=range_distances, tolerance=tolerance, map=map_spec)
 
 
 def _centre_frequency(frequencies):

@@ -56,6 +56,8 @@ class Case:
         On-axis distances (m) at which to predict a range measurement (``[range]``); empty: none.
     tolerance : tolerance_table.ToleranceSpec or None
         The tolerance study asked for (``[tolerance]``), None: none.
+    map : MapSpec or None
+        The case's ``[map]`` (two swept parameters), None without one.
     """
 
     path: Path
@@ -76,6 +78,7 @@ class Case:
     wall: object = None
     range_distances: tuple = ()
     tolerance: object = None
+    map: object = None
 
     @classmethod
     def from_definition(cls, path, raw, *, tier=None, cells_override=None):

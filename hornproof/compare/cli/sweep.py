@@ -68,6 +68,8 @@ def format_sweep(document):
     decimals = step_decimals(p["values"], unit)
     for key, interval in document["breakdown"].items():
         lines.append(f"  {ERROR_WORDS[key]}: {breakdown_words(interval, unit, decimals)}")
+    for failed in document.get("failed_points") or []:
+        lines.append(f"  FDTD failed at {failed['value']:g} {unit} ({failed.get('dims', '')}D): {failed['reason']}")
     for name, best in (document.get("optimum") or {}).items():
         if not best:
             continue

@@ -13,12 +13,13 @@ The errors are split as in ``verify``:
 
 Each error's breakdown is an interval (:func:`..numerics.breakdown.breakdown_interval`), each
 model's optimum a value with the range of swept values that could hold it
-(:func:`..numerics.breakdown.optimum_interval`). Finished points are cached by a content hash
-of everything that defines them (``points/<hash>.json``, written atomically), so a killed sweep
-rerun recomputes nothing it already finished.
+(:func:`..numerics.breakdown.optimum_interval`). The FDTD points run in the point pool
+(:mod:`.point_pool`): in parallel process groups under ``mpirun``, each cached in a verified
+``points/<hash>.json`` as it finishes, so a killed sweep rerun recomputes nothing it already
+finished; a failed point is listed in ``failed_points`` with its reason (NaN figures) and the
+sweep exits with status 3 only when every FDTD point failed.
 """
 
-import json
 import time
 from dataclasses import dataclass
 from pathlib import Path
@@ -26,8 +27,7 @@ from pathlib import Path
 import numpy as np
 
 from ...analytic.predict import predict
-from ...atomic import write_text_atomic
-from ...errors import InputError
+from ...errors import InputError, RunError
 from ...sim.solver import meep_version
 from ...version import build_version
 from ..case.sweepspec import SWEEP_PARAMETERS
@@ -38,7 +38,9 @@ from ..output.json_document import jsonable
 from ..output.summary import SAFETY_NOTE
 from ..output.sweep_json import SWEEP_SCHEMA, write_sweep_json
 from .messages import is_writer, say
-from .sweep_point import point_case, point_figures, point_key, point_ladder
+from .point_cost import point_cost
+from .point_pool import PointTask, every_point_failed, run_points
+from .sweep_point import point_case, point_definition, point_figures, point_ladder
 
 #: samples of the swept parameter on which the analytic models are evaluated (optima and the
 #: phase-approximation breakdown)
@@ -101,60 +103,52 @@ def analytic_point(value, horn, frequencies, centre, dims):
                       phase_error_e=float(horn.phase_error_e(frequencies[centre])))
 
 
-def read_cached_point(path):
-    """A finished point's FDTD figures from the cache, or None (missing or unreadable: an
-    unreadable cache entry is recomputed, never trusted)."""
-    if not path.is_file():
-        return None
-    try:
-        return json.loads(path.read_text())
-    except (OSError, json.JSONDecodeError):
-        return None
-
-
 def _number(value):
     return float("nan") if value is None else float(value)
 
 
-def add_fdtd(point, pcase, run, centre, label, log):
-    """Fill the FDTD figures of ``point`` at the band centre, from the cache of finished points
-    or by evaluating the point's case (then cached)."""
-    path = run["points_dir"] / f"{point_key(pcase)}.json"
-    figures = read_cached_point(path)
-    point.cached = figures is not None
-    if figures is None:
-        log(f"{label} (S = {point.phase_error_h:.3f}, T = {point.phase_error_e:.3f} wavelengths)")
-        figures = point_figures(pcase, force=run["force"], log=log)
-        figures["parameter"] = run["parameter"]
-        figures["value"] = point.value
-        if is_writer():
-            write_text_atomic(path, json.dumps(figures, indent=1) + "\n")
-    else:
-        log(f"{label} (cached)")
+def fill_fdtd(point, outcome, centre):
+    """The FDTD figures of ``point`` at the band centre from its pool outcome (NaN for a failed
+    point; ``cached`` None then)."""
+    point.cached = {"cached": True, "computed": False}.get(outcome.status)
+    if outcome.figures is None:
+        point.reason = outcome.reason
+        return
+    figures = outcome.figures
     point.fdtd = _number(figures["directivity"][centre])
     point.fdtd_uncertainty = _number(figures["uncertainty"][centre])
-    point.fdtd_confident = _number(figures["confident_uncertainty"][centre])
-    point.fdtd_bound = _number(figures["disagreement_bound"][centre])
-    point.ladder, point.reason = figures["ladder"][centre], figures["uncertainty_reason"][centre]
+    point.fdtd_confident = _number((figures.get("confident_uncertainty") or [None] * (centre + 1))[centre])
+    point.fdtd_bound = _number((figures.get("disagreement_bound") or [None] * (centre + 1))[centre])
+    point.ladder = (figures.get("ladder") or [None] * (centre + 1))[centre]
+    point.reason = (figures.get("uncertainty_reason") or [None] * (centre + 1))[centre]
     point.seconds = sum(s or 0 for s in figures.get("seconds", []))
     point.details = {key: figures.get(key) for key in ("cells_per_wavelength", "seconds", "verdict",
                                                         "worst_size_residual_percent", "wall_thickness_modelled_mm",
                                                         "wall_thickness_modelled_per_rung_mm")}
 
 
-def run_points(case, horns, dims, run, analytic_only, log):
-    """The :class:`SweepPoint` of every swept horn for one model dimension."""
+def run_model(case, horns, dims, run, analytic_only, log):
+    """The :class:`SweepPoint` of every swept horn for one model dimension, and the pool's
+    outcomes (empty when analytic only)."""
     freqs, centre, spec = run["frequencies"], run["centre"], case.sweep
-    points = []
-    for index, (value, horn) in enumerate(horns, start=1):
-        point = analytic_point(value, horn, freqs, centre, dims)
-        if not analytic_only:
-            ladder = run["ladder"] or point_ladder(spec, horn, freqs, dims)
-            pcase = point_case(case, horn, value, dims, ladder)
-            label = f"hornproof: sweep point {index}/{len(horns)} ({dims}D): {spec.parameter} = {value:g}"
-            add_fdtd(point, pcase, run, centre, label, log)
-        points.append(point)
-    return points
+    points = [analytic_point(value, horn, freqs, centre, dims) for value, horn in horns]
+    if analytic_only:
+        return points, []
+    tasks = []
+    for index, ((value, horn), point) in enumerate(zip(horns, points), start=1):
+        ladder = run["ladder"] or point_ladder(spec, horn, freqs, dims)
+        pcase = point_case(case, horn, value, dims, ladder)
+        tasks.append(PointTask(
+            horn, f"sweep point {index}/{len(horns)} ({dims}D): {spec.parameter} = {value:g} "
+                  f"(S = {point.phase_error_h:.3f}, T = {point.phase_error_e:.3f} wavelengths)",
+            {spec.parameter: value, "dims": dims}, point_cost(horn, freqs, pcase.fdtd, ladder),
+            definition=point_definition(pcase), run=lambda force, pcase=pcase: point_figures(pcase, force=force),
+            rungs=None))
+    outcomes = run_points(tasks, frequencies=freqs, settings=case.fdtd, ladder=[], points_dir=run["points_dir"],
+                          force=run["force"], log=log)
+    for point, outcome in zip(points, outcomes):
+        fill_fdtd(point, outcome, centre)
+    return points, outcomes
 
 
 def run_sweep(case, out_dir, *, dims=None, ladder=None, analytic_only=False, force=False, log=None):
@@ -172,15 +166,23 @@ def run_sweep(case, out_dir, *, dims=None, ladder=None, analytic_only=False, for
     freqs = np.asarray(case.frequencies, dtype=float)
     out_dir = Path(out_dir)
     run = {"points_dir": out_dir / "points", "frequencies": freqs, "centre": band_centre_index(freqs),
-           "ladder": [float(c) for c in ladder] if ladder else None, "force": force,
-           "parameter": spec.parameter}
+           "ladder": [float(c) for c in ladder] if ladder else None, "force": force}
     if is_writer():
-        run["points_dir"].mkdir(parents=True, exist_ok=True)
+        out_dir.mkdir(parents=True, exist_ok=True)
     started = time.monotonic()
-    models = {d: run_points(case, horns, d, run, analytic_only, log) for d in all_dims}
+    models, outcomes = {}, []
+    for d in all_dims:
+        models[d], done = run_model(case, horns, d, run, analytic_only, log)
+        outcomes += done
     document = sweep_document(case, models, analytic_only, time.monotonic() - started)
+    document["failed_points"] = [{"value": point.value, "dims": d, "reason": point.reason}
+                                 for d, points in models.items() for point in points
+                                 if not analytic_only and point.cached is None]
     if is_writer():
         write_sweep_folder(out_dir, document)
+    if every_point_failed(outcomes):
+        raise RunError(f"{case.path}: every FDTD point of the sweep failed (first: {outcomes[0].reason}); "
+                       f"the analytic results are in {out_dir}")
     return document
 
 

@@ -45,9 +45,10 @@ def point_case(case, horn, value, dims, ladder):
                                sha256=content_sha256(definition))
 
 
-def point_key(pcase):
-    """Content hash of one sweep point: the horn, band, FDTD settings, checks and versions."""
-    definition = {
+def point_definition(pcase):
+    """Everything that defines one sweep point, JSON-ready: the horn, band, FDTD settings,
+    checks and the hornproof and Meep versions (the point pool hashes it, :mod:`.point_pool`)."""
+    return {
         "horn": dataclasses.asdict(pcase.horn),
         "frequencies_hz": [float(f) for f in pcase.frequencies],
         "settings": jsonable(dataclasses.asdict(pcase.fdtd)),
@@ -55,7 +56,11 @@ def point_key(pcase):
         "hornproof": build_version(),
         "meep": meep_version(),
     }
-    return content_sha256(definition, POINT_KEY_LENGTH)
+
+
+def point_key(pcase):
+    """Content hash of one sweep point (its cache file name)."""
+    return content_sha256(point_definition(pcase), POINT_KEY_LENGTH)
 
 
 def _hypot(value, extra):

@@ -14,10 +14,12 @@ from pathlib import Path
 from ...atomic import replace_folder
 from ...errors import InputError
 from .result_json import RESULT_SCHEMA
+from .map_json import MAP_SCHEMA
 from .sweep_json import SWEEP_SCHEMA
 
 #: schema family (any version) of the marker file that makes a folder a hornproof result of each kind
-RESULT_MARKERS = {"result.json": RESULT_SCHEMA.split("/")[0] + "/", "sweep.json": SWEEP_SCHEMA.split("/")[0] + "/"}
+RESULT_MARKERS = {"result.json": RESULT_SCHEMA.split("/")[0] + "/", "sweep.json": SWEEP_SCHEMA.split("/")[0] + "/",
+                  "map.json": MAP_SCHEMA.split("/")[0] + "/"}
 
 
 def _is_result_folder(folder, markers):

@@ -18,6 +18,7 @@ from ...sim import mpi
 from ..output.result_json import RESULT_SCHEMA
 from ..output.baseline_file import figures_from_result
 from .cache import RESULT_FILE
+from .map_runs import with_map
 from .plan import estimate_case_cost, plan_process_groups
 
 __all__ = ["RunRecord", "default_runner", "run_cases"]
@@ -35,14 +36,16 @@ class RunRecord:
 
 
 def default_runner():
-    """``hornproof.compare.jobs.nightly_case.run_nightly_case`` (verify, and a case's sweep),
-    imported only when a case must run: it loads the solver stack, which a run served from the
-    cache should not pay for."""
+    """``hornproof.compare.jobs.nightly_case.run_nightly_case`` (verify, and a case's sweep) and,
+    for a case with a ``[map]`` in the full tier, its map (:mod:`.map_runs`); imported only when
+    a case must run: it loads the solver stack, which a run served from the cache should not pay
+    for."""
     try:
+        from ..jobs.map import run_map
         from ..jobs.nightly_case import run_nightly_case
     except ImportError as error:
-        raise RunError(f"hornproof.compare.jobs.nightly_case is not available ({error}): cannot run cases") from None
-    return run_nightly_case
+        raise RunError(f"hornproof.compare.jobs is not available ({error}): cannot run cases") from None
+    return with_map(run_nightly_case, run_map)
 
 
 def _check_result(path, case_sha256):

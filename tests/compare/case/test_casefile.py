@@ -464,7 +464,7 @@ def test_sweep_parameter_table_says_what_horn_at_does(parameter):
 # --- the shipped cases ---------------------------------------------------------------------
 
 SHIPPED = ("demo-h-sectoral", "e-sectoral", "pyramidal", "short-wide-flare", "gentle-long",
-           "sweep-h-flare", "sweep-h-flare-3d")
+           "sweep-h-flare", "sweep-h-flare-3d", "map-h-flare")
 
 
 def centre(case):

@@ -154,6 +154,7 @@ def test_help_matches_the_documented_options():
         "verify": ["--cells-per-wavelength", "--target-uncertainty", "--budget", "--range-m", "--out", "--json",
                    "--force"],
         "sweep": ["--cells-per-wavelength", "--dims", "--analytic-only", "--out"],
+        "map": ["--analytic-only", "--budget-hours", "--out", "--json", "--force"],
         "regress": ["--tier", "--update", "--junit", "--baselines", "--fresh"],
         "report": [],
         "exposure": ["--power-w", "--gain-dbi", "--json"],

@@ -18,9 +18,12 @@ import numpy as np
 import pytest
 
 from hornproof.compare.case.casefile import load_case
+from hornproof.analytic.geometry import HornGeometry
+from hornproof.compare.jobs.point_pool import run_point
 from hornproof.compare.jobs.sweep import run_sweep, sweep_dims
 from hornproof.compare.jobs.sweep_point import point_case, point_key, point_ladder
 from hornproof.compare.jobs.verify import evaluate_case
+from hornproof.sim.settings import FdtdSettings
 
 ROOT = Path(__file__).resolve().parents[3]
 
@@ -212,3 +215,16 @@ def test_pyramidal_sweep_of_both_flares_and_of_the_optimum_family(tmp_path):
     doc = run_sweep(case, tmp_path / "opt", analytic_only=True, log=lambda m: None)
     assert all(abs(s - 0.3965) < 0.1 for s in doc["phase_error_h_wl"])
     assert all(abs(t - 0.2624) < 0.1 for t in doc["phase_error_e_wl"])
+
+
+@pytest.mark.fullwave
+def test_point_uncertainty_adds_the_power_balance_term():
+    horn = HornGeometry("h-sectoral", 22.86e-3, 10.16e-3, 60e-3, 10.16e-3, 60e-3, 1e-3)
+    point = run_point(horn, np.array([10e9]), FdtdSettings(dims=2, pattern_step_deg=2.0), [10, 12], force=False)
+    # u = √(u_ladder² + (10 log10(1 + |ε|))² + u_fit²), hornproof's stated choice
+    # (numerics/power_balance.py; the grid-fit residual as verify adds it, jobs/grid_plan.py)
+    term = 10 * np.log10(1 + abs(point["power_balance_error"][0]))
+    residual = point["geometry_residual"][0]
+    assert point["uncertainty"][0] == pytest.approx(np.sqrt(point["uncertainty_ladder"][0] ** 2 + term ** 2
+                                                            + residual ** 2), rel=1e-12)
+    assert point["uncertainty"][0] > point["uncertainty_ladder"][0]
