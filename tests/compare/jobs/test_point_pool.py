@@ -248,20 +248,23 @@ def test_a_sweep_lists_a_failed_point_and_goes_on(tmp_path, monkeypatch):
         "values = [10, 15, 20, 25, 30, 35, 40, 45, 50, 55]", "values = [10, 20, 30]"))
     case = load_case(case_file)
 
-    def fake(horn, frequencies, settings, ladder, force):
-        if round(math.degrees(horn.flare_half_angle_h)) == 20:
+    def fake(pcase, force):  # a sweep point is a whole case (jobs/sweep_point.py)
+        if round(math.degrees(pcase.horn.flare_half_angle_h)) == 20:
             raise RunError("the FDTD run diverged (fake)")
-        return {"directivity": [10.0], "uncertainty": [0.1], "directivity_per_grid": [[10.0]] * len(ladder),
-                "cells_per_wavelength": list(ladder), "seconds": [1.0] * len(ladder)}
+        return {"directivity": [10.0], "uncertainty": [0.1], "confident_uncertainty": [0.1],
+                "disagreement_bound": [0.1], "ladder": ["monotone"], "uncertainty_reason": ["fake"],
+                "cells_per_wavelength": [20.0, 28.0, 40.0], "seconds": [1.0] * 3}
 
-    real = sweep.run_points
-    monkeypatch.setattr(sweep, "run_points", lambda tasks, **kw: real(tasks, **dict(kw, runner=fake)))
+    monkeypatch.setattr(sweep, "point_figures", fake)
     doc = sweep.run_sweep(case, tmp_path / "out", log=lambda m: None)
     assert doc["models"]["fdtd"] == [10.0, None, 10.0]
-    assert doc["failed_points"] == [{"value": 20.0, "reason": "the FDTD run diverged (fake)"}]
-    assert "FDTD failed at 20 deg: the FDTD run diverged (fake)" in format_sweep(doc)
-    monkeypatch.setattr(sweep, "run_points", lambda tasks, **kw: real(tasks, **dict(
-        kw, runner=lambda *a: (_ for _ in ()).throw(RunError("out of memory (fake)")))))
+    assert doc["failed_points"] == [{"value": 20.0, "dims": 2, "reason": "the FDTD run diverged (fake)"}]
+    assert "FDTD failed at 20 deg (2D): the FDTD run diverged (fake)" in format_sweep(doc)
+
+    def broken(pcase, force):
+        raise RunError("out of memory (fake)")
+
+    monkeypatch.setattr(sweep, "point_figures", broken)
     with pytest.raises(RunError, match="every FDTD point of the sweep failed"):
         sweep.run_sweep(case, tmp_path / "out2", log=lambda m: None)
     assert (tmp_path / "out2" / "sweep.json").is_file()  # written before the exit status 3
