@@ -21,7 +21,11 @@ Parts (each prints measured numbers and the ratio to its target; nothing here is
    and the directivity of each on the same fitted rung against a reference with thicker PML
    and more padding. Targets: PML + padding ≤ 35 % of the cells; directivity within 0.02 dB
    of the reference.
-3. ``map`` (not with ``--small``) — the shipped map case ``cases/map-h-flare.toml`` run by
+3. ``sweep3d`` (only when asked: ``--only sweep3d``; ten minutes of CPU or more) — the shipped 3D
+   flare sweep ``cases/sweep-h-flare-3d.toml`` run by ``hornproof sweep`` in a scratch folder:
+   seconds per point and rung, the whole sweep's wall and CPU time, and the ratio to the target
+   of 20 minutes on two cores.
+4. ``map`` (not with ``--small``) — the shipped map case ``cases/map-h-flare.toml`` run by
    ``hornproof map`` in a scratch folder: its printed estimate, then seconds per point and rung
    and the whole map.
 
@@ -55,6 +59,7 @@ FREQUENCY = 10e9
 TARGET_SPEEDUP = 1.5
 TARGET_SHARE = 0.35
 TARGET_DIRECTIVITY_DB = 0.02
+TARGET_SWEEP_SECONDS = 20 * 60
 
 
 def load():
@@ -205,10 +210,34 @@ def part_map(args, scratch):
     print(f"  whole map: {wall:.0f} s wall (command); {load()}")
 
 
+def part_sweep3d(args, scratch):
+    out = scratch / "sweep3d"
+    print(f"\n[sweep3d] hornproof sweep cases/sweep-h-flare-3d.toml (scratch folder); {load()}")
+    before = os.times()
+    started = time.monotonic()
+    env = dict(os.environ, MPLBACKEND="Agg")
+    done = subprocess.run([sys.executable, "-m", "hornproof.compare.cli.main", "sweep", "cases/sweep-h-flare-3d.toml",
+                           "--out", str(out), "--json"], capture_output=True, text=True, cwd=REPO, env=env)
+    wall = time.monotonic() - started
+    after = os.times()
+    cpu = (after.children_user + after.children_system) - (before.children_user + before.children_system)
+    if done.returncode != 0:
+        print(f"  sweep failed (exit {done.returncode}): {done.stderr.strip().splitlines()[-1]}")
+        return
+    document = json.loads(done.stdout)
+    for block in (document, document.get("principal_plane") or {}):
+        for point in block.get("points") or []:
+            rungs = ", ".join(f"{c:.1f}: {t:.1f} s" for c, t in zip(point.get("cells_per_wavelength") or [],
+                                                                     point.get("seconds") or []))
+            print(f"  {block['dims']}D point {point['value']:g}: per rung {rungs}")
+    print(f"  whole sweep: {wall:.0f} s wall, {cpu:.0f} s CPU; ratio to the {TARGET_SWEEP_SECONDS / 60:.0f}-minute "
+          f"target {wall / TARGET_SWEEP_SECONDS:.2f} (wall, {'met' if wall <= TARGET_SWEEP_SECONDS else 'missed'}); {load()}")
+
+
 def main(argv=None):
     parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     parser.add_argument("--small", action="store_true", help="coarse grid and the smaller largest point")
-    parser.add_argument("--only", action="append", choices=("pool", "pml", "map"), help="run only these parts")
+    parser.add_argument("--only", action="append", choices=("pool", "pml", "map", "sweep3d"), help="run only these parts")
     parser.add_argument("--pool-worker", help=argparse.SUPPRESS)
     args = parser.parse_args(argv)
     if args.pool_worker:
@@ -224,6 +253,8 @@ def main(argv=None):
             part_pml(args)
         if "map" in parts:
             part_map(args, scratch)
+        if "sweep3d" in parts:
+            part_sweep3d(args, scratch)
     return 0
 
 
