@@ -11,12 +11,16 @@ from .band_table import band_frequencies, check_band_against_guide, guide_warnin
 from .checks_table import read_checks
 from .fdtd_table import grid_warnings, read_fdtd
 from .horn_table import read_horn
+from .plausibility import Quantities, judge
 from .sweep_table import read_sweep
 from .tiers_table import read_tiers
 from .values import CaseProblem, check_keys, describe_value, input_error, read_table
 
 #: The case-file format this package reads.
 FORMAT_VERSION = 1
+
+#: longest title accepted (a title is one line of a report)
+MAX_TITLE_LENGTH = 200
 
 TOP_KEYS = ("format", "title", "horn", "band", "fdtd", "checks", "sweep", "tiers")
 
@@ -57,6 +61,7 @@ def _validated_fields(path, raw, tier, cells_override):
                                       float(max(band_frequencies(band))))
     checks, check_model = read_checks(read_table(raw, "checks", required=False))
     sweep = read_sweep(read_table(raw, "sweep", required=False), horn, fdtd_fields)
+    plausibility_warnings = _plausibility(horn, band, fdtd_fields, checks, sweep)
     tiers = read_tiers(read_table(raw, "tiers", required=False), horn, band, fdtd_fields,
                        quick_2d)
 
@@ -75,7 +80,7 @@ def _validated_fields(path, raw, tier, cells_override):
     fdtd = FdtdSettings(**fdtd_fields)
 
     warnings = [f"{path}: {key}: {reason}" for key, reason in
-                guide_warnings(band, frequencies, horn)
+                plausibility_warnings + guide_warnings(band, frequencies, horn)
                 + grid_warnings(horn, frequencies, fdtd.dims, fdtd.cells_per_wavelength,
                                 _cells_key(tier, cells_override))
                 + (grid_warnings(horn, frequencies, sweep.dims, (sweep.cells_per_wavelength,),
@@ -85,6 +90,34 @@ def _validated_fields(path, raw, tier, cells_override):
                 sha256=_variant_sha256(raw, tier, cells_override),
                 warnings=tuple(dict.fromkeys(warnings)), raw=raw, tier=tier,
                 cells_override=tuple(cells_override) if cells_override is not None else None)
+
+
+def _plausibility(horn, band, fdtd_fields, checks, sweep):
+    """The plausibility table (:mod:`.plausibility`) over the case and every swept horn: the
+    first refusal raised, the warnings returned (once each)."""
+    frequencies = band_frequencies(band)
+    band_keys = {"band.f_min_ghz": band["key_min"], "band.f_max_ghz": band["key_max"], "band": band["key_min"]}
+
+    def judged(horn_here, where):
+        quantities = Quantities(horn=horn_here, frequencies=frequencies, fdtd=fdtd_fields, checks=checks,
+                                sweep_cells=sweep.cells_per_wavelength if sweep else None)
+        try:
+            return [(band_keys.get(key, key), reason) for key, reason in judge(quantities, where)]
+        except CaseProblem as problem:
+            raise CaseProblem(band_keys.get(problem.key, problem.key), problem.reason) from None
+
+    warnings = judged(horn, "")
+    if sweep is not None:
+        swept_warnings = []
+        for value, swept in sweep.horns(horn):  # read_sweep has refused impossible values
+            try:
+                swept_warnings += judged(swept, f"at swept value {value:g}: ")
+            except CaseProblem as problem:
+                raise CaseProblem("sweep.values", f"{problem.key}: {problem.reason}") from None
+        fresh = [reason for _key, reason in swept_warnings]
+        if fresh:
+            warnings.append(("sweep.values", f"{len(fresh)} warning(s) over the swept horns, the first: {fresh[0]}"))
+    return warnings
 
 
 def _variant_sha256(raw, tier, cells_override):
@@ -129,4 +162,12 @@ def _read_title(raw, default):
         raise CaseProblem("title", "is empty")
     if "\n" in value or "\r" in value:
         raise CaseProblem("title", "must be one line")
-    return value.strip()
+    if len(value) > MAX_TITLE_LENGTH:
+        raise CaseProblem("title", f"{len(value)} characters; at most {MAX_TITLE_LENGTH}")
+    return shown_escaped(value.strip())
+
+
+def shown_escaped(text):
+    """``text`` with control characters (ANSI escapes, NUL, tabs) shown as Python escapes, so a
+    title cannot move the cursor, recolour or cut the terminal or the report."""
+    return "".join(c if c.isprintable() else repr(c)[1:-1] for c in text)

@@ -9,14 +9,16 @@ Exit status: 0 no regression · 1 a figure regressed or a run failed · 2 bad in
 """
 
 import argparse
+import errno
+import os
 from datetime import datetime, timezone
 from pathlib import Path
 
-from ...errors import InputError
+from ...errors import InputError, RunError
 from ...version import build_version
 from ..output import regress_json
 from ..output.baseline_file import write_baseline
-from ..output.folders import check_replaceable_file
+from ..output.folders import check_replaceable_file, path_text
 from ..output.junit import suite_name, write_junit
 from ..regress.baseline import baseline_from_result
 from ..regress.classify import STATUSES
@@ -84,16 +86,24 @@ def _output_files(args):
     """
     if args.cache_only and args.fresh:
         raise InputError("--fresh and --cache-only exclude each other: choose one")
+    if args.results == "":
+        raise InputError("--results: the path is empty; name a folder or leave the option out")
     results_dir = Path(args.results)
     try:
-        results_dir.mkdir(parents=True, exist_ok=True)
+        if results_dir.is_symlink() or (results_dir.exists() and not results_dir.is_dir()):
+            raise InputError(f"{path_text(args.results)}: --results: exists and is not a folder")
+        # the result root itself may be made; a missing parent of a named one is a typing slip
+        results_dir.mkdir(parents=args.results == "results", exist_ok=True)
     except OSError as error:
-        raise InputError(f"{results_dir}: --results: cannot use this as the results folder "
+        raise InputError(f"{path_text(args.results)}: --results: cannot use this as the results folder "
                          f"({error.strerror or error})") from None
-    summary_path = check_replaceable_file(args.summary or results_dir / "regress.json", "--summary",
-                                          regress_json.is_regress_summary, "a hornproof regress.json summary")
-    junit_path = check_replaceable_file(args.junit or results_dir / f"regress-{args.tier}.junit.xml", "--junit",
-                                        _is_own_junit, "a hornproof regress JUnit report")
+    summary_path = check_replaceable_file(results_dir / "regress.json" if args.summary is None else args.summary,
+                                          "--summary", regress_json.is_regress_summary,
+                                          "a hornproof regress.json summary")
+    junit_path = check_replaceable_file(results_dir / f"regress-{args.tier}.junit.xml" if args.junit is None
+                                        else args.junit, "--junit", _is_own_junit, "a hornproof regress JUnit report")
+    if summary_path.resolve() == junit_path.resolve():
+        raise InputError(f"{path_text(args.junit)}: --junit: the same file as --summary; name two files")
     return results_dir, summary_path, junit_path
 
 
@@ -176,6 +186,16 @@ def _update_baselines(outcomes, tier):
     return updated
 
 
+def error_for_user(error, fallback):
+    """The user-facing error for an ``OSError`` met writing the outputs: a full disk is a
+    resource failure (exit 3), anything else an output path that cannot be used (exit 2)."""
+    where = path_text(os.fsdecode(error.filename) if error.filename else fallback)
+    if error.errno in (errno.ENOSPC, errno.EDQUOT):
+        return RunError(f"{where}: no space left on the device; the run's results are cached, "
+                        "free space and run regress again")
+    return InputError(f"{where}: cannot write ({error.strerror or error})")
+
+
 def _finish(args, outcomes, started, summary_path, junit_path):
     """On rank 0: print the table, update baselines if asked, write the summary and JUnit files."""
     tier = args.tier
@@ -193,7 +213,7 @@ def _finish(args, outcomes, started, summary_path, junit_path):
                     properties={"tier": tier, "hornproof_version": document["hornproof_version"],
                                 "solver_version": document["solver_version"]})
     except OSError as error:
-        raise InputError(f"{error.filename or summary_path}: cannot write ({error.strerror or error})") from None
+        raise error_for_user(error, summary_path) from None
     if args.json:
         print(regress_json.dumps(document), flush=True)
     if args.update:

@@ -33,7 +33,7 @@ def draw_model_image(case, cells_per_wavelength, out_dir):
     from ..report.model_image import model_image
 
     out_dir.parent.mkdir(parents=True, exist_ok=True)
-    path = out_dir.parent / f".{out_dir.name}.model.png"
+    path = out_dir.parent / f".{out_dir.name}.model-{os.getpid()}.png"  # one name per run
     layout, cuts = metal_cuts(case.horn, case.fdtd, cells_per_wavelength, frequencies=case.frequencies)
     if is_writer():
         model_image(layout, cuts, path)

@@ -758,6 +758,7 @@ def test_foreign_report_file_is_never_overwritten(workspace, capsys, option):
 
 
 def test_own_report_files_are_replaced_by_the_next_run(workspace, capsys):
+    (workspace["root"] / "out").mkdir()  # a named folder must exist: hornproof makes only its own
     argv = ("--junit", "out/suite.xml", "--summary", "out/suite.json", "cases/horn-a.toml")
     assert _run(workspace, *argv, capsys=capsys)[0] == 0
     assert json.loads((workspace["root"] / "out" / "suite.json").read_text())["baselines_updated"] == []
