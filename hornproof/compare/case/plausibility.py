@@ -209,3 +209,26 @@ def judge(quantities, where=""):
                                         f"(usually {_range_words(limit.plausible, limit.unit)}): "
                                         f"{limit.reason}"))
     return warnings
+
+
+def limit_named(name):
+    """The row of :data:`LIMITS` called ``name``."""
+    for limit in LIMITS:
+        if limit.name == name:
+            return limit
+    raise KeyError(name)
+
+
+def judge_value(name, value):
+    """Judge one value against the row ``name`` alone (for command-line options that mean the
+    same as a case key). Returns a warning reason or None; raises ``CaseProblem`` (key: the
+    row's) when refused."""
+    limit = limit_named(name)
+    value = float(value)
+    if not math.isfinite(value) or _outside(value, limit.refused):
+        raise CaseProblem(limit.key, f"{limit.name} {value:.6g} {limit.unit} is refused "
+                                     f"(must be {_range_words(limit.refused, limit.unit)}): {limit.reason}")
+    if _outside(value, limit.plausible):
+        return (f"{limit.name} {value:.6g} {limit.unit} is implausible "
+                f"(usually {_range_words(limit.plausible, limit.unit)}): {limit.reason}")
+    return None

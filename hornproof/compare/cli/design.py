@@ -11,6 +11,7 @@ so it can go straight to ``verify``.
 """
 
 import json
+import sys
 from pathlib import Path
 
 import numpy as np
@@ -20,7 +21,9 @@ from ...analytic.predict import predict
 from ...analytic.waveguide import EIA_WAVEGUIDES, waveguide_size
 from ...atomic import write_text_atomic
 from ...errors import InputError
-from ...units import GHZ, MM
+from ...units import GHZ, MM, SPEED_OF_LIGHT
+from ..case.plausibility import judge_value
+from ..case.values import CaseProblem
 from ..output.folders import check_new_file
 from ..output.json_document import jsonable
 from ..output.summary import SAFETY_NOTE
@@ -76,10 +79,31 @@ def _phase_errors(text):
     return (s, t)
 
 
+def _plausible_options(args):
+    """The plausibility table (:mod:`..case.plausibility`) applied to the options that mean
+    what case keys mean; refusals raise, warnings are returned."""
+    checks = [("--frequency-ghz", "lowest frequency", args.frequency_ghz),
+              ("--wall-mm", "wall thickness", args.wall_mm)]
+    if getattr(args, "flare_length_mm", None) is not None and args.frequency_ghz > 0:
+        wavelengths = args.flare_length_mm * MM / (SPEED_OF_LIGHT / (args.frequency_ghz * GHZ))
+        checks.append(("--flare-length-mm", "flare length", wavelengths))
+    warnings = []
+    for option, row, value in checks:
+        try:
+            reason = judge_value(row, value)
+        except CaseProblem as problem:
+            raise InputError(f"{option}: {problem.reason}") from None
+        if reason:
+            warnings.append(f"{option}: {reason}")
+    return warnings
+
+
 def _design(args):
     a, b = _guide(args)
     if not args.frequency_ghz > 0:
         raise InputError("--frequency-ghz: must be positive")
+    for warning in _plausible_options(args):
+        print(f"hornproof: warning: {warning}", file=sys.stderr)
     frequency = args.frequency_ghz * GHZ
     try:
         if args.design_kind == "gain":

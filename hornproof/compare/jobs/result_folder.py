@@ -9,6 +9,7 @@ import os
 
 import numpy as np
 
+from ...analytic.waveguide import te10_wave_impedance
 from ..output.fields_h5 import write_fields_h5
 from ..output.result_json import write_result_json
 from ..output.touchstone import write_s1p
@@ -21,7 +22,8 @@ def write_result_files(folder, case, summary, sim_results, ladder):
     write_fields_h5(folder / "fields.h5", finest, case_sha256=case.sha256, case_name=case.name)
     s11 = np.asarray(finest.extra["s11_real"]) + 1j * np.asarray(finest.extra["s11_imag"])
     write_s1p(folder / "s11.s1p", case.frequencies, s11, case_name=case.name,
-              solver_version=str(finest.run.get("meep_version", "")))
+              solver_version=str(finest.run.get("meep_version", "")),
+              wave_impedances=te10_wave_impedance(case.frequencies, case.horn.guide_a))
     write_result_json(folder / "result.json", summary)
 
 
