@@ -88,6 +88,7 @@ def _validated_fields(path, raw, tier, cells_override):
     return dict(path=path, name=path.stem, title=title, horn=horn, frequencies=frequencies,
                 fdtd=fdtd, checks=checks, check_model=check_model, sweep=sweep, tiers=tiers,
                 sha256=_variant_sha256(raw, tier, cells_override),
+                computation_sha256=computation_sha256(raw, tier, cells_override),
                 warnings=tuple(dict.fromkeys(warnings)), raw=raw, tier=tier,
                 cells_override=tuple(cells_override) if cells_override is not None else None)
 
@@ -127,6 +128,20 @@ def _variant_sha256(raw, tier, cells_override):
     return definition_sha256({"case": raw, "tier": tier,
                               "cells_per_wavelength": list(cells_override)
                               if cells_override is not None else None})
+
+
+#: top-level tables that judge or name a computation without changing it: editing them keeps a
+#: baseline comparable
+JUDGEMENT_KEYS = ("checks", "title")
+
+
+def computation_sha256(raw, tier=None, cells_override=None):
+    """Hash of what defines the computation: the definition without its ``[checks]``
+    tolerances and title, with the tier and grid override. A baseline stays comparable when
+    only the judgement changes (regress, not-comparable)."""
+    computation = {key: value for key, value in raw.items() if key not in JUDGEMENT_KEYS}
+    return definition_sha256({"computation": computation, "tier": tier,
+                              "cells_per_wavelength": list(cells_override) if cells_override is not None else None})
 
 
 def _cells_key(tier, cells_override):

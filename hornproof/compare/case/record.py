@@ -47,6 +47,9 @@ class Case:
         The parsed TOML table, as read.
     tier : str or None
         The tier applied by :meth:`for_tier`, None for the case as written.
+    computation_sha256 : str
+        Hash of what defines the computation (no ``[checks]``, no title): what regress
+        compares baselines by.
     cells_override : tuple or None
         The ladder set by :meth:`with_cells`, None when the case's own ladder is used.
     """
@@ -66,6 +69,7 @@ class Case:
     raw: dict
     tier: str = None
     cells_override: tuple = None
+    computation_sha256: str = ""
 
     @classmethod
     def from_definition(cls, path, raw, *, tier=None, cells_override=None):

@@ -163,6 +163,10 @@ def _report_lines(outcomes, tier):
                 lines.append(f"regressed: {outcome.name}: result folder {outcome.result_dir} (no report.html)")
         elif outcome.status == "failed":
             lines.append(f"failed: {outcome.name}: {outcome.reason} (run folder {outcome.result_dir})")
+        elif outcome.status == "not-comparable":
+            reason = next((v.reason for v in outcome.figures if v.status == "not-comparable"), "")
+            lines.append(f"not-comparable: {outcome.name}: {reason.split('; ')[0]}; review the change, then run "
+                         f"'hornproof regress --update {outcome.case_file}'")
     counts = count_statuses(outcomes)
     lines.append(f"{len(outcomes)} case(s), tier {tier}: "
                  + ", ".join(f"{counts[s]} {s}" for s in reversed(STATUSES) if counts[s]))
@@ -179,7 +183,7 @@ def _update_baselines(outcomes, tier):
         try:
             write_baseline(path, baseline_from_result(
                 outcome.result, case=outcome.name, tier=tier, settings=outcome.settings,
-                hornproof_version=build_version()))
+                hornproof_version=build_version(), computation_sha256=outcome.computation_sha256))
         except (ValueError, OSError) as error:
             raise InputError(f"{path}: cannot write baseline ({error})") from None
         updated.append(display_path(path))

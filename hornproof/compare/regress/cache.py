@@ -106,14 +106,9 @@ class ResultCache:
         problem = None
         try:
             data = path.read_bytes()
-            recorded = _recorded_result_sha256(path.parent / KEY_FILE)
-            if hashlib.sha256(data).hexdigest() != recorded:
-                raise _Tampered()
             result = json.loads(data.decode("utf-8"))
         except FileNotFoundError:
             problem = "no result.json"
-        except _Tampered:
-            problem = "content does not match the hash recorded in cache-key.json (edited or corrupt)"
         except (OSError, UnicodeDecodeError, ValueError) as error:
             problem = f"unreadable ({error})"
         else:
@@ -123,6 +118,8 @@ class ResultCache:
                 problem = f"schema: {result.get('schema')!r}, expected {RESULT_SCHEMA!r}"
             elif expected_case_sha256 is not None and result.get("case_sha256") != expected_case_sha256:
                 problem = "case_sha256: does not match the case"
+            elif hashlib.sha256(data).hexdigest() != _recorded_result_sha256(path.parent / KEY_FILE):
+                problem = "content does not match the hash recorded in cache-key.json (edited or corrupt)"
         if problem is not None:
             if notes is not None:
                 notes.append(f"{path}: {problem}; ignored, the case runs again")
@@ -188,10 +185,6 @@ class ResultCache:
         For runners that return the summary without writing it (verify writes it itself).
         """
         write_text_atomic(Path(partial) / RESULT_FILE, json.dumps(result, indent=2, sort_keys=True) + "\n")
-
-
-class _Tampered(Exception):
-    """A cached result.json whose bytes differ from the hash recorded when it was published."""
 
 
 def _recorded_result_sha256(key_file):
