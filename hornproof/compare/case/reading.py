@@ -49,7 +49,7 @@ def read_toml(path):
     except UnicodeDecodeError as error:
         raise InputError(f"{shown}: cannot read the case file: not UTF-8 text "
                          f"(bad byte at offset {error.start})") from None
-    depth = bracket_depth(text)
+    depth = max(bracket_depth(text), dotted_key_depth(text))
     if depth > MAX_CASE_NESTING:
         raise InputError(f"{shown}: invalid case file: arrays or tables nested {depth} deep "
                          f"(at most {MAX_CASE_NESTING})")
@@ -127,6 +127,31 @@ def bracket_depth(text):
         elif c in "]}":
             depth = max(depth - 1, 0)
         i += 1
+    return deepest
+
+
+def dotted_key_depth(text):
+    """Most parts in one dotted key or table header of TOML ``text`` (``a.b.c`` has 3), dots
+    inside quotes not counted: a key path 50,000 parts long takes the parser seconds."""
+    deepest = 0
+    for line in text.splitlines():
+        key = line.strip()
+        if key.startswith("["):
+            key = key.strip("[")
+            key = key.split("]", 1)[0]
+        elif "=" in key:
+            key = key.split("=", 1)[0]
+        else:
+            continue
+        parts, quote = 1, None
+        for c in key:
+            if quote:
+                quote = None if c == quote else quote
+            elif c in "\"'":
+                quote = c
+            elif c == ".":
+                parts += 1
+        deepest = max(deepest, parts)
     return deepest
 
 
