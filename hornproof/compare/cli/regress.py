@@ -195,8 +195,8 @@ def error_for_user(error, fallback):
     resource failure (exit 3), anything else an output path that cannot be used (exit 2)."""
     where = path_text(os.fsdecode(error.filename) if error.filename else fallback)
     if error.errno in (errno.ENOSPC, errno.EDQUOT):
-        return RunError(f"{where}: no space left on the device; the run's results are cached, "
-                        "free space and run regress again")
+        return RunError(f"{where}: no space left on the device; finished runs stay "
+                        "cached: free space and run regress again")
     return InputError(f"{where}: cannot write ({error.strerror or error})")
 
 
