@@ -100,14 +100,14 @@ def _largest_tolerance(q, suffix):
 #: plausible range, reason. README.md ("Plausibility limits") carries a copy.
 LIMITS = (
     Limit("lowest frequency", "band.f_min_ghz", "GHz", lambda q: q.f_min / GHZ, (0.1, 1000.0), (0.3, 330.0),
-          "horns fed by rectangular guide span about WR-2300 (0.32 GHz) to WR-3 (330 GHz); "
-          "outside 0.1-1000 GHz the number is a unit slip (MHz typed as GHz)"),
+          "horns fed by rectangular guide span about WR-2300 (from 0.32 GHz) to WR-3 (to about 330 GHz; "
+          "EIA bands from memory); outside 0.1-1000 GHz the number is a unit slip (MHz typed as GHz)"),
     Limit("highest frequency", "band.f_max_ghz", "GHz", lambda q: q.f_max / GHZ, (0.1, 1000.0), (0.3, 330.0),
           "as the lowest frequency"),
     Limit("band above TE10 cutoff", "band.f_min_ghz", "x cutoff",
-          lambda q: q.f_min / float(te10_cutoff_frequency(q.horn.guide_a)), (1.01, None), (1.05, None),
+          lambda q: q.f_min / float(te10_cutoff_frequency(q.horn.guide_a)), (1.01, None), (None, None),
           "within 1 % of cutoff the guide wavelength exceeds 7 free-space wavelengths and the feed "
-          "never settles (a run would not end); within 5 % the feed is strongly dispersive"),
+          "never settles (a run would not end); within 5 % the band check warns (limits.NEAR_CUTOFF_FRACTION)"),
     Limit("band width", "band.f_max_ghz", "f_max / f_min", lambda q: q.f_max / q.f_min, (None, 10.0), (None, 2.5),
           "a rectangular guide is single-mode over less than an octave (TE10 to TE20 cutoff is 2:1)"),
     Limit("band spacing", "band", "relative", _closest_spacing, (1e-6, None), (1e-4, None),

@@ -21,6 +21,7 @@ from ..output.baseline_file import write_baseline
 from ..output.folders import check_replaceable_file, path_text
 from ..output.junit import suite_name, write_junit
 from ..regress.baseline import baseline_from_result
+from ..regress.case_runs import NO_SPACE
 from ..regress.classify import STATUSES
 from ..regress.junit_cases import junit_cases
 from ..regress.outcome import count_statuses, exit_status, suite_summary
@@ -220,6 +221,8 @@ def _finish(args, outcomes, started, summary_path, junit_path):
         raise error_for_user(error, summary_path) from None
     if args.json:
         print(regress_json.dumps(document), flush=True)
+    if any(o.status == "failed" and NO_SPACE in (o.reason or "") for o in outcomes):
+        return 3  # README: 3 the run failed (out of resources)
     if args.update:
         return 1 if any(o.status == "failed" for o in outcomes) else 0
     return exit_status(outcomes)
