@@ -81,20 +81,23 @@ def _phase_errors(text):
 
 def _plausible_options(args):
     """The plausibility table (:mod:`..case.plausibility`) applied to the options that mean
-    what case keys mean; refusals raise, warnings are returned."""
-    checks = [("--frequency-ghz", "lowest frequency", args.frequency_ghz),
-              ("--wall-mm", "wall thickness", args.wall_mm)]
-    if getattr(args, "flare_length_mm", None) is not None and args.frequency_ghz > 0:
-        wavelengths = args.flare_length_mm * MM / (SPEED_OF_LIGHT / (args.frequency_ghz * GHZ))
-        checks.append(("--flare-length-mm", "flare length", wavelengths))
+    what case keys mean, in order (the frequency first: the length is judged in wavelengths);
+    refusals raise, warnings are returned."""
     warnings = []
-    for option, row, value in checks:
+
+    def judged(option, row, value):
         try:
             reason = judge_value(row, value)
         except CaseProblem as problem:
             raise InputError(f"{option}: {problem.reason}") from None
         if reason:
             warnings.append(f"{option}: {reason}")
+
+    judged("--frequency-ghz", "lowest frequency", args.frequency_ghz)
+    judged("--wall-mm", "wall thickness", args.wall_mm)
+    if getattr(args, "flare_length_mm", None) is not None:
+        wavelength = SPEED_OF_LIGHT / (args.frequency_ghz * GHZ)
+        judged("--flare-length-mm", "flare length", args.flare_length_mm * MM / wavelength)
     return warnings
 
 

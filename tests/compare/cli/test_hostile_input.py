@@ -189,3 +189,23 @@ def test_sigkill_leftover_is_refused_by_report_and_cleared_by_the_next_run(tmp_p
     assert again.returncode in (0, 1, 4), again_err
     assert "removed a leftover of a killed run" in again_err
     assert not list(tmp_path.glob(".out.partial-*")) and (out / "result.json").is_file()
+
+
+def test_design_options_with_hostile_numbers_are_one_line():
+    # seeded: the combinations that once raised ZeroDivisionError (frequency 1e308 / inf with a
+    # flare length) and a sample of others; each must be refused in one line or designed
+    import random
+
+    rng = random.Random("hornproof-design-fuzz")
+    values = ["1e308", "-1", "0", "nan", "inf", "1e-308", "10", "1e9", "20", "6000"]
+    for _ in range(150):
+        kind = rng.choice(["gain", "flare"])
+        argv = ["design", kind] + (["--gain-dbi", rng.choice(values)] if kind == "gain" else
+                                   ["--type", rng.choice(["pyramidal", "h-sectoral", "e-sectoral"]),
+                                    "--flare-length-mm", rng.choice(values)])
+        argv += ["--frequency-ghz", rng.choice(values)]
+        argv += rng.choice([["--waveguide", "WR-90"],
+                            ["--waveguide-a-mm", rng.choice(values), "--waveguide-b-mm", rng.choice(values)]])
+        code, _, err = _cli(*argv)
+        assert "Traceback" not in err, argv
+        assert code == 0 or (code == 2 and _error_line(err)), (argv, code, err)

@@ -209,7 +209,7 @@ def test_sweep_resumes_in_its_own_folder_and_lists_what_it_wrote(tmp_path):
     assert _cli("sweep", str(SWEEP), "--analytic-only", "--out", str(out))[0] == 0
     marker = read_marker(out)
     assert marker["kind"] == "sweep" and {"sweep.json", "report.html", "points"} <= set(marker["entries"])
-    assert _cli("sweep", str(SWEEP), "--analytic-only", "--out", str(out))[0] == 0  # its own: replaced
+    assert check_output_folder(out, "--out", kind="sweep") == out  # its own: a rerun may use it
     code, _, err = _cli("simulate", str(DEMO), "--out", str(out))  # another command's: refused
     assert code == 2 and "not a simulate result" in _one_error_line(err)
 
