@@ -90,19 +90,28 @@ def _output_files(args):
     if args.results == "":
         raise InputError("--results: the path is empty; name a folder or leave the option out")
     results_dir = Path(args.results)
+
+    def summary_target():
+        return check_replaceable_file(results_dir / "regress.json" if args.summary is None else args.summary,
+                                      "--summary", regress_json.is_regress_summary, "a hornproof regress.json summary")
+
+    def junit_target():
+        return check_replaceable_file(results_dir / f"regress-{args.tier}.junit.xml" if args.junit is None
+                                      else args.junit, "--junit", _is_own_junit, "a hornproof regress JUnit report")
+
+    # files the user named are checked before the result root is made, so a refusal leaves nothing
+    summary_path = summary_target() if args.summary is not None else None
+    junit_path = junit_target() if args.junit is not None else None
     try:
-        if results_dir.is_symlink() or (results_dir.exists() and not results_dir.is_dir()):
+        if results_dir.exists() and not results_dir.is_dir():
             raise InputError(f"{path_text(args.results)}: --results: exists and is not a folder")
         # the result root itself may be made; a missing parent of a named one is a typing slip
         results_dir.mkdir(parents=args.results == "results", exist_ok=True)
     except OSError as error:
         raise InputError(f"{path_text(args.results)}: --results: cannot use this as the results folder "
                          f"({error.strerror or error})") from None
-    summary_path = check_replaceable_file(results_dir / "regress.json" if args.summary is None else args.summary,
-                                          "--summary", regress_json.is_regress_summary,
-                                          "a hornproof regress.json summary")
-    junit_path = check_replaceable_file(results_dir / f"regress-{args.tier}.junit.xml" if args.junit is None
-                                        else args.junit, "--junit", _is_own_junit, "a hornproof regress JUnit report")
+    summary_path = summary_path or summary_target()
+    junit_path = junit_path or junit_target()
     if summary_path.resolve() == junit_path.resolve():
         raise InputError(f"{path_text(args.junit)}: --junit: the same file as --summary; name two files")
     return results_dir, summary_path, junit_path

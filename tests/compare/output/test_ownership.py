@@ -221,6 +221,7 @@ def test_regress_outputs_are_checked_before_anything_runs(tmp_path, monkeypatch)
     code, _, err = _cli("regress", str(DEMO), "--cache-only", "--summary", str(decoy))
     assert code == 2 and "refusing to overwrite" in _one_error_line(err)
     assert decoy.read_text() == "root:x:0:0\n"
+    assert not (tmp_path / "results").exists()  # a refused run leaves nothing behind
     code, _, err = _cli("regress", str(DEMO), "--cache-only", "--junit", str(tmp_path / "new" / "sub" / "j.xml"))
     assert code == 2 and "does not exist" in _one_error_line(err)
     assert not (tmp_path / "new").exists()
