@@ -106,8 +106,6 @@ def main(argv=None):
     except MemoryError:
         return _report(debug, 3, "out of memory: the model does not fit in this machine's memory "
                                  "(fewer cells per wavelength, a smaller band or horn)")
-    except RecursionError:
-        return _report(debug, 2, "input nested too deeply to process")
     except OSError as error:
         code, message = os_error_message(error)
         return _report(debug, code, message)
