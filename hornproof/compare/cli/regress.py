@@ -18,7 +18,7 @@ from ...errors import InputError, RunError
 from ...version import build_version
 from ..output import regress_json
 from ..output.baseline_file import write_baseline
-from ..output.folders import check_replaceable_file, path_text
+from ..output.folders import check_replaceable_file, path_text, under_result_root
 from ..output.junit import suite_name, write_junit
 from ..regress.baseline import baseline_from_result
 from ..regress.case_runs import NO_SPACE
@@ -91,17 +91,22 @@ def _output_files(args):
         raise InputError("--results: the path is empty; name a folder or leave the option out")
     results_dir = Path(args.results)
 
+    summary_wanted = results_dir / "regress.json" if args.summary is None else Path(args.summary)
+    junit_wanted = results_dir / f"regress-{args.tier}.junit.xml" if args.junit is None else Path(args.junit)
+
     def summary_target():
-        return check_replaceable_file(results_dir / "regress.json" if args.summary is None else args.summary,
-                                      "--summary", regress_json.is_regress_summary, "a hornproof regress.json summary")
+        return check_replaceable_file(summary_wanted, "--summary", regress_json.is_regress_summary,
+                                      "a hornproof regress.json summary",
+                                      create_parents=under_result_root(summary_wanted, results_dir))
 
     def junit_target():
-        return check_replaceable_file(results_dir / f"regress-{args.tier}.junit.xml" if args.junit is None
-                                      else args.junit, "--junit", _is_own_junit, "a hornproof regress JUnit report")
+        return check_replaceable_file(junit_wanted, "--junit", _is_own_junit, "a hornproof regress JUnit report",
+                                      create_parents=under_result_root(junit_wanted, results_dir))
 
-    # files the user named are checked before the result root is made, so a refusal leaves nothing
-    summary_path = summary_target() if args.summary is not None else None
-    junit_path = junit_target() if args.junit is not None else None
+    # files named outside the result root are checked before the root is made, so such a
+    # refusal leaves nothing behind; those inside it may have their folders made
+    summary_path = summary_target() if not under_result_root(summary_wanted, results_dir) else None
+    junit_path = junit_target() if not under_result_root(junit_wanted, results_dir) else None
     try:
         if results_dir.exists() and not results_dir.is_dir():
             raise InputError(f"{path_text(args.results)}: --results: exists and is not a folder")

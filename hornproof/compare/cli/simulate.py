@@ -8,7 +8,7 @@ from ..jobs.messages import is_writer, say
 from ..jobs.simulate import default_simulate_folder, simulate_case
 from ..numerics.figures import directivity_key
 from ..report.format import MISSING_VALUE
-from ..output.folders import check_output_folder, claimed_output_folder
+from ..output.folders import check_output_folder, claimed_output_folder, under_result_root
 from ..output.terminal import emit_result, safety_lines
 from .arguments import add_fdtd_run_arguments
 
@@ -55,7 +55,8 @@ def run(args):
                             else float(max(case.fdtd.cells_per_wavelength)))
     out_dir = Path(args.out) if args.out is not None else default_simulate_folder(case, cells_per_wavelength)
     option = "--out" if args.out is not None else "the default result folder"
-    out_dir = check_output_folder(out_dir, option, kind="simulate", create_parents=args.out is None)
+    out_dir = check_output_folder(out_dir, option, kind="simulate",
+                                  create_parents=args.out is None or under_result_root(args.out))
     with claimed_output_folder(out_dir, option, "simulate", hold=is_writer(), tell=say):
         summary = simulate_case(case, cells_per_wavelength, out_dir, force=args.force, image=args.image)
     if is_writer():

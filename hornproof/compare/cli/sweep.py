@@ -7,7 +7,7 @@ from ..case.casefile import load_case
 from ..jobs.messages import is_writer, say
 from ..jobs.sweep import run_sweep
 from ..report.format import MISSING_VALUE
-from ..output.folders import check_output_folder, claimed_output_folder
+from ..output.folders import check_output_folder, claimed_output_folder, under_result_root
 from ..output.ownership import write_marker
 from ..output.terminal import emit_result, safety_lines
 from .arguments import cells_per_wavelength_list
@@ -68,7 +68,7 @@ def run(args):
     case = load_case(args.case)
     option = "--out" if args.out is not None else "the default sweep folder"
     out_dir = check_output_folder(Path(args.out) if args.out is not None else Path("results") / f"{case.name}-sweep",
-                                  option, kind="sweep", create_parents=args.out is None)
+                                  option, kind="sweep", create_parents=args.out is None or under_result_root(args.out))
     writer = is_writer()
     with claimed_output_folder(out_dir, option, "sweep", hold=writer, tell=say):
         if writer:  # marked before the first point is cached, so a killed sweep can resume here

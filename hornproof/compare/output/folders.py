@@ -27,6 +27,21 @@ def path_text(path):
     return "".join(c if c.isprintable() else repr(c)[1:-1] for c in text)
 
 
+#: hornproof's own result root (relative to the working folder): the one place where missing
+#: parent folders are created for an output
+RESULT_ROOT = "results"
+
+
+def under_result_root(path, root=RESULT_ROOT):
+    """True when ``path`` lies inside the result root ``root`` (both resolved without requiring
+    them to exist): only there does hornproof create missing parent folders."""
+    try:
+        Path(path).resolve().relative_to(Path(root).resolve())
+    except (ValueError, OSError, RuntimeError):
+        return False
+    return Path(path).resolve() != Path(root).resolve()
+
+
 def _refuse_empty(path, option):
     if path is None or str(path) == "":
         raise InputError(f"{option}: the path is empty; name a folder or file, or leave the option out")

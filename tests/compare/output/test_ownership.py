@@ -23,6 +23,7 @@ from hornproof.compare.output.folders import (
     check_replaceable_file,
     claimed_output_folder,
     publish_folder,
+    under_result_root,
 )
 from hornproof.compare.output.output_lock import lock_path, output_lock
 from hornproof.compare.output.ownership import (
@@ -125,6 +126,16 @@ def test_missing_parent_of_a_named_path_is_not_created(tmp_path):
     # hornproof's own default result root may be made
     assert check_output_folder(target, "the default result folder", kind="verify", create_parents=True) == target
     assert target.parent.is_dir() and not target.exists()
+
+
+def test_folders_under_the_result_root_may_be_made(tmp_path, monkeypatch):
+    # README quick start: scripts/demo writes to results/demo on a fresh clone
+    monkeypatch.chdir(tmp_path)
+    assert under_result_root("results/demo") and under_result_root("results/a/b/c")
+    assert not under_result_root("results") and not under_result_root("elsewhere/x")
+    assert not under_result_root("results/../elsewhere")
+    code, _, err = _cli("regress", str(DEMO), "--cache-only", "--junit", "results/nightly/suite.junit.xml")
+    assert code == 1 and (tmp_path / "results" / "nightly" / "suite.junit.xml").is_file(), err  # 1: no cache
 
 
 def test_a_symbolic_link_as_output_is_refused(tmp_path):
