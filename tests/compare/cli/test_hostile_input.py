@@ -209,3 +209,25 @@ def test_design_options_with_hostile_numbers_are_one_line():
         code, _, err = _cli(*argv)
         assert "Traceback" not in err, argv
         assert code == 0 or (code == 2 and _error_line(err)), (argv, code, err)
+
+
+@pytest.mark.parametrize("argv, words", [
+    # a guide of 1e-308 mm cuts off far above 10 GHz (TE10 cutoff c / 2a): once a TypeError
+    (["--type", "h-sectoral", "--flare-length-mm", "6000", "--waveguide-a-mm", "1e-308", "--waveguide-b-mm", "1e-308"],
+     "x cutoff is refused"),
+    (["--type", "pyramidal", "--flare-length-mm", "100", "--waveguide-a-mm", "10", "--waveguide-b-mm", "20"],
+     "exceeds width"),
+])
+def test_design_guide_that_cannot_carry_te10_is_one_line(argv, words):
+    code, _, err = _cli("design", "flare", "--frequency-ghz", "10", *argv)
+    assert code == 2 and words in _error_line(err)
+
+
+def test_design_beyond_the_limits_is_shown_with_a_warning_but_never_written_as_a_case(tmp_path):
+    # 45 dBi on WR-90 at 10 GHz needs a flare of about 2000 wavelengths (beyond the table's 500)
+    code, out, err = _cli("design", "gain", "--gain-dbi", "45", "--frequency-ghz", "10", "--waveguide", "WR-90")
+    assert code == 0 and "warning: the designed horn: horn.flare_length_mm" in err
+    target = tmp_path / "big.toml"
+    code, _, err = _cli("design", "gain", "--gain-dbi", "45", "--frequency-ghz", "10", "--waveguide", "WR-90",
+                        "--write-case", target)
+    assert code == 2 and "--write-case" in _error_line(err) and not target.exists()
