@@ -66,13 +66,23 @@ def atomic_path(path):
     path = os.fspath(path)
     directory = os.path.dirname(os.path.abspath(path))
     base = os.path.basename(path)
-    fd, temporary = tempfile.mkstemp(prefix=f".{base}.", suffix=".part", dir=directory)
+    try:
+        fd, temporary = tempfile.mkstemp(prefix=f".{base}.", suffix=".part", dir=directory)
+    except OSError as error:
+        raise OSError(error.errno, error.strerror, path) from None
     os.close(fd)
     try:
         os.chmod(temporary, _default_mode(path))
         yield temporary
         _fsync_file(temporary)
         os.replace(temporary, path)
+    except OSError as error:
+        with contextlib.suppress(FileNotFoundError):
+            os.unlink(temporary)
+        if error.filename in (temporary, None) or error.filename2 == path:
+            # name the user's file, never the temporary one
+            raise OSError(error.errno, error.strerror, path) from error
+        raise
     except BaseException:
         with contextlib.suppress(FileNotFoundError):
             os.unlink(temporary)

@@ -16,3 +16,7 @@ MIN_CELLS_ACROSS_OPENING = 4.0
 MAX_BAND_POINTS = 1000
 #: A band edge closer than this fraction above TE10 cutoff draws a warning.
 NEAR_CUTOFF_FRACTION = 0.05
+#: Largest numerical uncertainty a stored baseline may carry, per figure unit: an uncertainty
+#: beyond it would call any change "within noise" (the same bounds as the largest tolerance a
+#: case may set, compare/case/plausibility.py).
+MAX_BASELINE_UNCERTAINTY = {"dB": 20.0, "deg": 90.0}

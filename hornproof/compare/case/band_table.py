@@ -79,9 +79,10 @@ def read_band_points(value, dotted, f_min, f_max):
 
 def band_frequencies(band):
     """Frequencies of a validated band, Hz."""
-    if "list" in band:
-        return np.array(band["list"], dtype=float) * GHZ
-    return np.linspace(band["f_min"], band["f_max"], band["points"]) * GHZ
+    with np.errstate(over="ignore"):  # 1e308 GHz is inf Hz: the plausibility table refuses it
+        if "list" in band:
+            return np.array(band["list"], dtype=float) * GHZ
+        return np.linspace(band["f_min"], band["f_max"], band["points"]) * GHZ
 
 
 def check_band_against_guide(band, horn):

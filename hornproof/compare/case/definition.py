@@ -14,6 +14,7 @@ from .fdtd_table import grid_warnings, read_fdtd
 from .horn_table import read_horn, read_wall
 from .range_table import read_range
 from .map_table import read_map
+from .plausibility import Quantities, judge
 from .sweep_table import read_sweep
 from .tiers_table import read_tiers
 from .tolerance_table import read_tolerance
@@ -21,6 +22,9 @@ from .values import CaseProblem, check_keys, describe_value, input_error, read_t
 
 #: The case-file format this package reads.
 FORMAT_VERSION = 1
+
+#: longest title accepted (a title is one line of a report)
+MAX_TITLE_LENGTH = 200
 
 TOP_KEYS = ("format", "title", "horn", "band", "fdtd", "checks", "sweep", "tiers", "range", "tolerance", "map")
 
@@ -63,6 +67,7 @@ def _validated_fields(path, raw, tier, cells_override):
     checks, check_model = read_checks(read_table(raw, "checks", required=False))
     sweep = read_sweep(read_table(raw, "sweep", required=False), horn, fdtd_fields,
                        _centre_frequency(band_frequencies(band)))
+    plausibility_warnings = _plausibility(horn, band, fdtd_fields, checks, sweep)
     tiers = read_tiers(read_table(raw, "tiers", required=False), horn, band, fdtd_fields,
                        quick_2d)
     range_distances = read_range(read_table(raw, "range", required=False))
@@ -86,7 +91,7 @@ def _validated_fields(path, raw, tier, cells_override):
     fdtd = FdtdSettings(**fdtd_fields)
 
     warnings = [f"{path}: {key}: {reason}" for key, reason in
-                guide_warnings(band, frequencies, horn)
+                plausibility_warnings + guide_warnings(band, frequencies, horn)
                 + grid_warnings(horn, frequencies, fdtd.dims, fdtd.cells_per_wavelength,
                                 _cells_key(tier, cells_override))
                 + (grid_warnings(horn, frequencies, sweep.dims, sweep.cells_per_wavelength,
@@ -94,6 +99,7 @@ def _validated_fields(path, raw, tier, cells_override):
     return dict(path=path, name=path.stem, title=title, horn=horn, frequencies=frequencies,
                 fdtd=fdtd, checks=checks, check_model=check_model, sweep=sweep, tiers=tiers,
                 sha256=_variant_sha256(raw, tier, cells_override),
+                computation_sha256=computation_sha256(raw, tier, cells_override),
                 warnings=tuple(dict.fromkeys(warnings)), raw=raw, tier=tier,
                 cells_override=tuple(cells_override) if cells_override is not None else None,
                 wall=wall, range_distances=range_distances, tolerance=tolerance, map=map_spec)
@@ -104,6 +110,35 @@ def _centre_frequency(frequencies):
     return float(frequencies[band_centre_index(frequencies)])
 
 
+def _plausibility(horn, band, fdtd_fields, checks, sweep):
+    """The plausibility table (:mod:`.plausibility`) over the case and every swept horn: the
+    first refusal raised, the warnings returned (once each)."""
+    frequencies = band_frequencies(band)
+    band_keys = {"band.f_min_ghz": band["key_min"], "band.f_max_ghz": band["key_max"], "band": band["key_min"]}
+
+    def judged(horn_here, where):
+        quantities = Quantities(horn=horn_here, frequencies=frequencies, fdtd=fdtd_fields, checks=checks,
+                                sweep_cells=max(sweep.cells_per_wavelength) if sweep and sweep.cells_per_wavelength
+                                else None)
+        try:
+            return [(band_keys.get(key, key), reason) for key, reason in judge(quantities, where)]
+        except CaseProblem as problem:
+            raise CaseProblem(band_keys.get(problem.key, problem.key), problem.reason) from None
+
+    warnings = judged(horn, "")
+    if sweep is not None:
+        swept_warnings = []
+        for value, swept in sweep.horns(horn):  # read_sweep has refused impossible values
+            try:
+                swept_warnings += judged(swept, f"at swept value {value:g}: ")
+            except CaseProblem as problem:
+                raise CaseProblem("sweep.values", f"{problem.key}: {problem.reason}") from None
+        fresh = [reason for _key, reason in swept_warnings]
+        if fresh:
+            warnings.append(("sweep.values", f"{len(fresh)} warning(s) over the swept horns, the first: {fresh[0]}"))
+    return warnings
+
+
 def _variant_sha256(raw, tier, cells_override):
     """Hash of the case as written, or of the definition with its tier and grid override."""
     if tier is None and cells_override is None:
@@ -111,6 +146,20 @@ def _variant_sha256(raw, tier, cells_override):
     return definition_sha256({"case": raw, "tier": tier,
                               "cells_per_wavelength": list(cells_override)
                               if cells_override is not None else None})
+
+
+#: top-level tables that judge or name a computation without changing it: editing them keeps a
+#: baseline comparable
+JUDGEMENT_KEYS = ("checks", "title")
+
+
+def computation_sha256(raw, tier=None, cells_override=None):
+    """Hash of what defines the computation: the definition without its ``[checks]``
+    tolerances and title, with the tier and grid override. A baseline stays comparable when
+    only the judgement changes (regress, not-comparable)."""
+    computation = {key: value for key, value in raw.items() if key not in JUDGEMENT_KEYS}
+    return definition_sha256({"computation": computation, "tier": tier,
+                              "cells_per_wavelength": list(cells_override) if cells_override is not None else None})
 
 
 def _cells_key(tier, cells_override):
@@ -146,4 +195,12 @@ def _read_title(raw, default):
         raise CaseProblem("title", "is empty")
     if "\n" in value or "\r" in value:
         raise CaseProblem("title", "must be one line")
-    return value.strip()
+    if len(value) > MAX_TITLE_LENGTH:
+        raise CaseProblem("title", f"{len(value)} characters; at most {MAX_TITLE_LENGTH}")
+    return shown_escaped(value.strip())
+
+
+def shown_escaped(text):
+    """``text`` with control characters (ANSI escapes, NUL, tabs) shown as Python escapes, so a
+    title cannot move the cursor, recolour or cut the terminal or the report."""
+    return "".join(c if c.isprintable() else repr(c)[1:-1] for c in text)

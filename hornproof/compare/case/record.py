@@ -48,6 +48,9 @@ class Case:
         The parsed TOML table, as read.
     tier : str or None
         The tier applied by :meth:`for_tier`, None for the case as written.
+    computation_sha256 : str
+        Hash of what defines the computation (no ``[checks]``, no title): what regress
+        compares baselines by.
     cells_override : tuple or None
         The ladder set by :meth:`with_cells`, None when the case's own ladder is used.
     wall : horn_table.WallSpec or None
@@ -79,6 +82,7 @@ class Case:
     range_distances: tuple = ()
     tolerance: object = None
     map: object = None
+    computation_sha256: str = ""
 
     @classmethod
     def from_definition(cls, path, raw, *, tier=None, cells_override=None):

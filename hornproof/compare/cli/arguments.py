@@ -2,6 +2,7 @@
 
 import argparse
 
+from ...errors import InputError
 from ...limits import MAX_CELLS_PER_WAVELENGTH, MIN_CELLS_PER_WAVELENGTH
 
 
@@ -14,6 +15,15 @@ def add_fdtd_run_arguments(parser, *, cells_metavar, cells_help, out_help):
     parser.add_argument("--out", metavar="DIR", help=out_help)
     parser.add_argument("--json", action="store_true")
     parser.add_argument("--force", action="store_true", help="run even if the estimate exceeds free memory")
+
+
+def refuse_empty_paths(args, options=("out", "summary", "junit", "results", "baselines", "write_case")):
+    """Refuse an option given as an empty path (``--out ""`` would silently mean the default or
+    the working folder)."""
+    for dest in options:
+        if getattr(args, dest, None) == "":
+            raise InputError(f"--{dest.replace('_', '-')}: the path is empty; name a folder or file, "
+                             "or leave the option out")
 
 
 def cells_per_wavelength_list(text):

@@ -11,6 +11,8 @@ so it can go straight to ``verify``.
 """
 
 import json
+import math
+import sys
 from pathlib import Path
 
 import numpy as np
@@ -18,10 +20,12 @@ import numpy as np
 from ...analytic import design
 from ...analytic.model_limits import model_limit_warnings
 from ...analytic.predict import predict
-from ...analytic.waveguide import EIA_WAVEGUIDES, waveguide_size
+from ...analytic.waveguide import EIA_WAVEGUIDES, te10_cutoff_frequency, waveguide_size
 from ...atomic import write_text_atomic
 from ...errors import InputError
-from ...units import GHZ, MM
+from ...units import GHZ, MM, SPEED_OF_LIGHT
+from ..case.plausibility import Quantities, judge, judge_value
+from ..case.values import CaseProblem
 from ..output.folders import check_new_file
 from ..output.json_document import jsonable
 from ..output.summary import SAFETY_NOTE
@@ -77,10 +81,67 @@ def _phase_errors(text):
     return (s, t)
 
 
+def _plausible_guide(args, guide_a, guide_b):
+    """The guide must carry TE10 at the design frequency (the table's cutoff row) with E along
+    its short side, like a case file's guide."""
+    if not (math.isfinite(guide_a) and math.isfinite(guide_b)):
+        raise InputError("--waveguide-a-mm: guide sizes must be finite")
+    if guide_b > guide_a:
+        raise InputError(f"--waveguide-b-mm: guide height b = {guide_b / MM:g} mm exceeds width "
+                         f"a = {guide_a / MM:g} mm (TE10 needs E along the short side)")
+    with np.errstate(over="ignore", divide="ignore"):
+        ratio = args.frequency_ghz * GHZ / float(te10_cutoff_frequency(guide_a))
+    try:
+        judge_value("band above TE10 cutoff", ratio)
+    except CaseProblem as problem:
+        raise InputError(f"--frequency-ghz: {problem.reason}") from None
+
+
+def _judge_designed_horn(result, writing_case):
+    """The plausibility table over the designed horn (aperture and length in wavelengths, wall).
+    The design itself is instant and is shown even beyond the table (with a warning); a case
+    file is not written for it (the loader would refuse it)."""
+    quantities = Quantities(horn=result.horn, frequencies=np.array([result.frequency]), fdtd={}, checks={})
+    try:
+        warnings = judge(quantities)
+    except CaseProblem as problem:
+        if writing_case:
+            raise InputError(f"--write-case: the designed horn is beyond hornproof's plausibility limits, "
+                             f"so its case file would be refused: {problem.key}: {problem.reason}") from None
+        warnings = [(problem.key, f"beyond hornproof's limits, a case file would be refused: {problem.reason}")]
+    for key, reason in warnings:
+        print(f"hornproof: warning: the designed horn: {key}: {reason}", file=sys.stderr)
+
+
+def _plausible_options(args):
+    """The plausibility table (:mod:`..case.plausibility`) applied to the options that mean
+    what case keys mean, in order (the frequency first: the length is judged in wavelengths);
+    refusals raise, warnings are returned."""
+    warnings = []
+
+    def judged(option, row, value):
+        try:
+            reason = judge_value(row, value)
+        except CaseProblem as problem:
+            raise InputError(f"{option}: {problem.reason}") from None
+        if reason:
+            warnings.append(f"{option}: {reason}")
+
+    judged("--frequency-ghz", "lowest frequency", args.frequency_ghz)
+    judged("--wall-mm", "wall thickness", args.wall_mm)
+    if getattr(args, "flare_length_mm", None) is not None:
+        wavelength = SPEED_OF_LIGHT / (args.frequency_ghz * GHZ)
+        judged("--flare-length-mm", "flare length", args.flare_length_mm * MM / wavelength)
+    return warnings
+
+
 def _design(args):
     a, b = _guide(args)
     if not args.frequency_ghz > 0:
         raise InputError("--frequency-ghz: must be positive")
+    for warning in _plausible_options(args):
+        print(f"hornproof: warning: {warning}", file=sys.stderr)
+    _plausible_guide(args, a, b)
     frequency = args.frequency_ghz * GHZ
     try:
         if args.design_kind == "gain":
@@ -170,6 +231,7 @@ def run(args):
     if args.write_case:
         check_new_file(args.write_case, "--write-case")
     result = _design(args)
+    _judge_designed_horn(result, writing_case=bool(args.write_case))
     summary = design_summary(result)
     if args.write_case:
         write_text_atomic(Path(args.write_case), case_text(summary, args.design_kind))

@@ -8,14 +8,18 @@ Anything else is a bug and keeps its traceback.
 
 import argparse
 import contextlib
+import errno
 import importlib
+import os
 import signal
 import sys
+import traceback
 
 from ...errors import HornproofError, InputError
 from ...version import VERSION
 from ..jobs.messages import is_main_process, silence_solver_exit_banner
 from ..output import terminal
+from .arguments import refuse_empty_paths
 
 DESCRIPTION = """\
 How far do closed-form rectangular-horn formulas hold for your horn? hornproof reads a case
@@ -83,21 +87,20 @@ def dispatch(args):
 
 def main(argv=None):
     parser = build_parser()
+    argv = sys.argv[1:] if argv is None else list(argv)
     args = parser.parse_args(argv)
+    debug = bool(getattr(args, "debug", False))
     terminal.set_result_stream(sys.stdout)
     previous_sigterm = signal.signal(signal.SIGTERM, _terminate)
     try:
+        refuse_repeated_options(parser, argv, args.command)
+        refuse_empty_paths(args)
         if args.command == "regress":  # regress keeps its own standard-output discipline
             return dispatch(args)
         with contextlib.redirect_stdout(sys.stderr):  # solver banners go to standard error
             return dispatch(args)
     except HornproofError as error:
-        if args.debug:
-            raise
-        message = str(error).splitlines()[0] if str(error) else type(error).__name__
-        if is_main_process():  # every MPI rank raises the same error; one prints it
-            print(f"hornproof: error: {message}", file=sys.stderr)
-        return error.exit_code
+        return _report(debug, error.exit_code, str(error) or type(error).__name__, all_ranks_alike=True)
     except KeyboardInterrupt:
         print("hornproof: interrupted", file=sys.stderr)
         return 130
@@ -105,20 +108,90 @@ def main(argv=None):
         print("hornproof: terminated (SIGTERM); nothing half-written was kept", file=sys.stderr)
         return 143
     except MemoryError:
-        if args.debug:
-            raise
-        print("hornproof: error: out of memory; use fewer cells per wavelength", file=sys.stderr)
-        return 3
+        return _report(debug, 3, "out of memory: the model does not fit in this machine's memory "
+                                 "(fewer cells per wavelength, a smaller band or horn)")
     except OSError as error:
-        if args.debug:
-            raise
-        where = error.filename or ""
-        print(f"hornproof: error: {where}{': ' if where else ''}{error.strerror or error}", file=sys.stderr)
-        return 2 if error.filename else 3
+        code, message = os_error_message(error)
+        return _report(debug, code, message)
     finally:
         signal.signal(signal.SIGTERM, previous_sigterm)
         terminal.set_result_stream(None)
         silence_solver_exit_banner()
+
+
+def _report(debug, code, message, all_ranks_alike=False):
+    """Print one error line (and, with ``--debug``, the traceback first); return ``code`` —
+    ``--debug`` never changes the exit status."""
+    if debug:
+        traceback.print_exc()
+    if not all_ranks_alike or is_main_process():  # every MPI rank raises a user error alike; one prints it
+        print(f"hornproof: error: {escape_controls(message)}", file=sys.stderr)
+    return code
+
+
+def escape_controls(text):
+    """``text`` on one line: newlines, escapes (ANSI), NUL and other control characters shown
+    as Python escapes, so nothing a user or a file supplied can move the cursor or cut a line."""
+    return "".join(c if c.isprintable() else repr(c)[1:-1] for c in str(text))
+
+
+#: errno -> (exit status, words): the OSError cases a user can act on, each its own message
+_OS_ERRORS = {
+    errno.ENOSPC: (3, "no space left on the device"),
+    errno.EDQUOT: (3, "disk quota exceeded"),
+    errno.EROFS: (2, "read-only file system"),
+    errno.EACCES: (2, "permission denied"),
+    errno.EPERM: (2, "operation not permitted"),
+    errno.ELOOP: (2, "a symbolic link loop"),
+    errno.ENOENT: (2, "no such file or folder"),
+    errno.ENOTDIR: (2, "a part of the path is not a folder"),
+    errno.EISDIR: (2, "is a folder"),
+    errno.ENAMETOOLONG: (2, "the name is too long"),
+    errno.EMFILE: (3, "too many open files"),
+    errno.ENOMEM: (3, "out of memory"),
+}
+
+
+def os_error_message(error):
+    """(exit status, one line) for an ``OSError`` that reached the command line: the user's
+    path (never a temporary name: :mod:`hornproof.atomic` reports the target) and the reason.
+    A full disk or another resource is exit 3 ("the run failed: out of resources"), a path the
+    user can fix exit 2, anything else 3."""
+    code, words = _OS_ERRORS.get(error.errno, (3, error.strerror or str(error)))
+    where = error.filename
+    if isinstance(where, bytes):
+        where = os.fsdecode(where)
+    if where:
+        return code, f"{where}: {words}"
+    return code, f"{words} (while writing or reading a file)"
+
+
+def refuse_repeated_options(parser, argv, command):
+    """Refuse an option given twice (argparse would silently keep the last one)."""
+    sub = parser._subparsers._group_actions[0].choices.get(command) if parser._subparsers else None
+    seen = {}
+    for token in argv:
+        if token == "--":
+            break
+        if not token.startswith("--") or token == "--":
+            continue
+        name = token.split("=", 1)[0]
+        action = None
+        for candidate_parser in (sub, parser):
+            if candidate_parser is None:
+                continue
+            action = candidate_parser._option_string_actions.get(name)
+            if action is None:  # an unambiguous abbreviation, as argparse accepts it
+                matches = {a for option, a in candidate_parser._option_string_actions.items()
+                           if option.startswith(name)}
+                action = matches.pop() if len(matches) == 1 else None
+            if action is not None:
+                break
+        if action is None:
+            continue
+        if action.dest in seen:
+            raise InputError(f"{name}: given twice (also as {seen[action.dest]}); give each option once")
+        seen[action.dest] = name
 
 
 class _Terminated(BaseException):

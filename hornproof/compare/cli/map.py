@@ -8,8 +8,9 @@ from pathlib import Path
 from ..case.casefile import load_case
 from ..jobs.map import run_map
 from ..jobs.map_estimate import DEFAULT_BUDGET_HOURS
-from ..jobs.messages import is_writer
-from ..output.folders import check_output_folder
+from ..jobs.messages import is_writer, say
+from ..output.folders import check_output_folder, claimed_output_folder, under_result_root
+from ..output.ownership import write_marker
 from ..output.terminal import emit_result, safety_lines
 from ..report.format import MISSING_VALUE
 
@@ -77,13 +78,26 @@ def format_map(document):
     return "\n".join(lines)
 
 
+#: what a map writes into its folder (listed in its ownership marker before the run, so a killed
+#: map's folder is still recognised as its own)
+MAP_ENTRIES = ("points", "map.json", "report.html") + tuple(
+    f"map_{kind}_error.{ext}" for kind in ("phase_approximation", "aperture_model", "total") for ext in ("png", "svg"))
+
+
 def run(args):
     case = load_case(args.case)
-    out_dir = check_output_folder(Path(args.out) if args.out else Path("results") / f"{case.name}-map",
-                                  "--out" if args.out else "the default map folder",
-                                  markers=("map.json",), allow_partial=("points",))
-    document = run_map(case, out_dir, analytic_only=args.analytic_only, force=args.force,
-                       budget_hours=args.budget_hours)
+    option = "--out" if args.out is not None else "the default map folder"
+    out_dir = check_output_folder(Path(args.out) if args.out is not None else Path("results") / f"{case.name}-map",
+                                  option, kind="map", create_parents=args.out is None or under_result_root(args.out))
+    writer = is_writer()
+    with claimed_output_folder(out_dir, option, "map", hold=writer, tell=say):
+        if writer:  # marked before the first point is cached, so a killed map can resume here
+            out_dir.mkdir(exist_ok=True)
+            write_marker(out_dir, "map", extra_entries=MAP_ENTRIES)
+        document = run_map(case, out_dir, analytic_only=args.analytic_only, force=args.force,
+                           budget_hours=args.budget_hours)
+        if writer:
+            write_marker(out_dir, "map", extra_entries=MAP_ENTRIES)
     if is_writer():
         emit_result(args.json, document, format_map(document), f"report: {out_dir / 'report.html'}")
     return 0

@@ -48,9 +48,9 @@ def format_table(summary):
     if two_d:
         lines.append("  D2 = 2D model, dB (a per-unit-length ratio): the 2D directivity of the flared plane alone (not dBi).")
     lines += horn_3d_lines(summary)
-    lines.append(safety_lines())
-    for w in summary.get("warnings", []):
+    for w in summary.get("warnings", []):  # warnings come before the safety text
         lines.append(f"  warning: {w}")
+    lines.append(safety_lines())
     return "\n".join(lines)
 
 

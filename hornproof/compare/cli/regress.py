@@ -9,16 +9,19 @@ Exit status: 0 no regression · 1 a figure regressed or a run failed · 2 bad in
 """
 
 import argparse
+import errno
+import os
 from datetime import datetime, timezone
 from pathlib import Path
 
-from ...errors import InputError
+from ...errors import InputError, RunError
 from ...version import build_version
 from ..output import regress_json
 from ..output.baseline_file import write_baseline
-from ..output.folders import check_replaceable_file
+from ..output.folders import check_replaceable_file, path_text, under_result_root
 from ..output.junit import suite_name, write_junit
 from ..regress.baseline import baseline_from_result
+from ..regress.case_runs import NO_SPACE
 from ..regress.classify import STATUSES
 from ..regress.junit_cases import junit_cases
 from ..regress.outcome import count_statuses, exit_status, suite_summary
@@ -84,16 +87,38 @@ def _output_files(args):
     """
     if args.cache_only and args.fresh:
         raise InputError("--fresh and --cache-only exclude each other: choose one")
+    if args.results == "":
+        raise InputError("--results: the path is empty; name a folder or leave the option out")
     results_dir = Path(args.results)
+
+    summary_wanted = results_dir / "regress.json" if args.summary is None else Path(args.summary)
+    junit_wanted = results_dir / f"regress-{args.tier}.junit.xml" if args.junit is None else Path(args.junit)
+
+    def summary_target():
+        return check_replaceable_file(summary_wanted, "--summary", regress_json.is_regress_summary,
+                                      "a hornproof regress.json summary",
+                                      create_parents=under_result_root(summary_wanted, results_dir))
+
+    def junit_target():
+        return check_replaceable_file(junit_wanted, "--junit", _is_own_junit, "a hornproof regress JUnit report",
+                                      create_parents=under_result_root(junit_wanted, results_dir))
+
+    # files named outside the result root are checked before the root is made, so such a
+    # refusal leaves nothing behind; those inside it may have their folders made
+    summary_path = summary_target() if not under_result_root(summary_wanted, results_dir) else None
+    junit_path = junit_target() if not under_result_root(junit_wanted, results_dir) else None
     try:
-        results_dir.mkdir(parents=True, exist_ok=True)
+        if results_dir.exists() and not results_dir.is_dir():
+            raise InputError(f"{path_text(args.results)}: --results: exists and is not a folder")
+        # the result root itself may be made; a missing parent of a named one is a typing slip
+        results_dir.mkdir(parents=args.results == "results", exist_ok=True)
     except OSError as error:
-        raise InputError(f"{results_dir}: --results: cannot use this as the results folder "
+        raise InputError(f"{path_text(args.results)}: --results: cannot use this as the results folder "
                          f"({error.strerror or error})") from None
-    summary_path = check_replaceable_file(args.summary or results_dir / "regress.json", "--summary",
-                                          regress_json.is_regress_summary, "a hornproof regress.json summary")
-    junit_path = check_replaceable_file(args.junit or results_dir / f"regress-{args.tier}.junit.xml", "--junit",
-                                        _is_own_junit, "a hornproof regress JUnit report")
+    summary_path = summary_path or summary_target()
+    junit_path = junit_path or junit_target()
+    if summary_path.resolve() == junit_path.resolve():
+        raise InputError(f"{path_text(args.junit)}: --junit: the same file as --summary; name two files")
     return results_dir, summary_path, junit_path
 
 
@@ -153,6 +178,10 @@ def _report_lines(outcomes, tier):
                 lines.append(f"regressed: {outcome.name}: result folder {outcome.result_dir} (no report.html)")
         elif outcome.status == "failed":
             lines.append(f"failed: {outcome.name}: {outcome.reason} (run folder {outcome.result_dir})")
+        elif outcome.status == "not-comparable":
+            reason = next((v.reason for v in outcome.figures if v.status == "not-comparable"), "")
+            lines.append(f"not-comparable: {outcome.name}: {reason.split('; ')[0]}; review the change, then run "
+                         f"'hornproof regress --update {outcome.case_file}'")
     counts = count_statuses(outcomes)
     lines.append(f"{len(outcomes)} case(s), tier {tier}: "
                  + ", ".join(f"{counts[s]} {s}" for s in reversed(STATUSES) if counts[s]))
@@ -169,11 +198,21 @@ def _update_baselines(outcomes, tier):
         try:
             write_baseline(path, baseline_from_result(
                 outcome.result, case=outcome.name, tier=tier, settings=outcome.settings,
-                hornproof_version=build_version()))
+                hornproof_version=build_version(), computation_sha256=outcome.computation_sha256))
         except (ValueError, OSError) as error:
             raise InputError(f"{path}: cannot write baseline ({error})") from None
         updated.append(display_path(path))
     return updated
+
+
+def error_for_user(error, fallback):
+    """The user-facing error for an ``OSError`` met writing the outputs: a full disk is a
+    resource failure (exit 3), anything else an output path that cannot be used (exit 2)."""
+    where = path_text(os.fsdecode(error.filename) if error.filename else fallback)
+    if error.errno in (errno.ENOSPC, errno.EDQUOT):
+        return RunError(f"{where}: no space left on the device; finished runs stay "
+                        "cached: free space and run regress again")
+    return InputError(f"{where}: cannot write ({error.strerror or error})")
 
 
 def _finish(args, outcomes, started, summary_path, junit_path):
@@ -193,9 +232,11 @@ def _finish(args, outcomes, started, summary_path, junit_path):
                     properties={"tier": tier, "hornproof_version": document["hornproof_version"],
                                 "solver_version": document["solver_version"]})
     except OSError as error:
-        raise InputError(f"{error.filename or summary_path}: cannot write ({error.strerror or error})") from None
+        raise error_for_user(error, summary_path) from None
     if args.json:
         print(regress_json.dumps(document), flush=True)
+    if any(o.status == "failed" and NO_SPACE in (o.reason or "") for o in outcomes):
+        return 3  # README: 3 the run failed (out of resources)
     if args.update:
         return 1 if any(o.status == "failed" for o in outcomes) else 0
     return exit_status(outcomes)

@@ -4,11 +4,11 @@ from pathlib import Path
 
 from ...errors import InputError
 from ..case.casefile import load_case
-from ..jobs.messages import is_writer
+from ..jobs.messages import is_writer, say
 from ..jobs.simulate import default_simulate_folder, simulate_case
 from ..numerics.figures import directivity_key
 from ..report.format import MISSING_VALUE
-from ..output.folders import check_output_folder
+from ..output.folders import check_output_folder, claimed_output_folder, under_result_root
 from ..output.terminal import emit_result, safety_lines
 from .arguments import add_fdtd_run_arguments
 
@@ -16,7 +16,7 @@ from .arguments import add_fdtd_run_arguments
 def setup_arguments(parser):
     add_fdtd_run_arguments(parser, cells_metavar="N",
                            cells_help="grid density at f_max, one value (default: the finest of the case's ladder)",
-                           out_help="output folder (default: results/<case>/<hash>/fdtd-<N>)")
+                           out_help="output folder (default: results/<case>/<hash>-fdtd-<N>)")
     parser.add_argument("--image", action="store_true", help="also write model.png (two cuts through the axis)")
 
 
@@ -46,14 +46,19 @@ def format_fdtd(summary):
 
 def run(args):
     case = load_case(args.case)
+    for warning in case.warnings:
+        say(f"hornproof: warning: {warning}")
     if args.cells_per_wavelength and len(args.cells_per_wavelength) > 1:
         raise InputError("--cells-per-wavelength: simulate runs one grid; give one value "
                          "(verify runs a ladder)")
     cells_per_wavelength = (float(args.cells_per_wavelength[0]) if args.cells_per_wavelength
                             else float(max(case.fdtd.cells_per_wavelength)))
-    out_dir = Path(args.out) if args.out else default_simulate_folder(case, cells_per_wavelength)
-    out_dir = check_output_folder(out_dir, "--out" if args.out else "the default result folder")
-    summary = simulate_case(case, cells_per_wavelength, out_dir, force=args.force, image=args.image)
+    out_dir = Path(args.out) if args.out is not None else default_simulate_folder(case, cells_per_wavelength)
+    option = "--out" if args.out is not None else "the default result folder"
+    out_dir = check_output_folder(out_dir, option, kind="simulate",
+                                  create_parents=args.out is None or under_result_root(args.out))
+    with claimed_output_folder(out_dir, option, "simulate", hold=is_writer(), tell=say):
+        summary = simulate_case(case, cells_per_wavelength, out_dir, force=args.force, image=args.image)
     if is_writer():
         emit_result(args.json, summary, format_fdtd(summary), f"results: {out_dir}")
     return 0

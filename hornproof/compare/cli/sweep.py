@@ -4,10 +4,11 @@
 from pathlib import Path
 
 from ..case.casefile import load_case
-from ..jobs.messages import is_writer
+from ..jobs.messages import is_writer, say
 from ..jobs.sweep import run_sweep
 from ..report.format import MISSING_VALUE, breakdown_words, step_decimals
-from ..output.folders import check_output_folder
+from ..output.folders import check_output_folder, claimed_output_folder, under_result_root
+from ..output.ownership import write_marker
 from ..output.terminal import emit_result, safety_lines
 from .arguments import cells_per_wavelength_list
 
@@ -19,6 +20,11 @@ ERROR_WORDS = {"phase_approximation": "phase approximation (closed form vs exact
 
 #: the three models, as the terminal names them
 MODEL_WORDS = {"closed_form": "closed form", "exact_phase": "exact phase", "fdtd": "FDTD"}
+
+#: what a sweep writes into its folder (listed in its ownership marker before the run, so a
+#: killed sweep's folder is still recognised as its own)
+SWEEP_ENTRIES = ("points", "sweep.json", "report.html") + tuple(
+    f"{name}.{ext}" for name in ("directivity_vs_parameter", "error_vs_parameter", "aperture_error_3d_vs_2d") for ext in ("png", "svg"))
 
 
 def setup_arguments(parser):
@@ -97,11 +103,18 @@ def format_sweep(document):
 
 def run(args):
     case = load_case(args.case)
-    out_dir = check_output_folder(Path(args.out) if args.out else Path("results") / f"{case.name}-sweep",
-                                  "--out" if args.out else "the default sweep folder",
-                                  markers=("sweep.json",), allow_partial=("points",))
-    document = run_sweep(case, out_dir, dims=args.dims, ladder=args.cells_per_wavelength,
-                         analytic_only=args.analytic_only, force=args.force)
+    option = "--out" if args.out is not None else "the default sweep folder"
+    out_dir = check_output_folder(Path(args.out) if args.out is not None else Path("results") / f"{case.name}-sweep",
+                                  option, kind="sweep", create_parents=args.out is None or under_result_root(args.out))
+    writer = is_writer()
+    with claimed_output_folder(out_dir, option, "sweep", hold=writer, tell=say):
+        if writer:  # marked before the first point is cached, so a killed sweep can resume here
+            out_dir.mkdir(exist_ok=True)
+            write_marker(out_dir, "sweep", extra_entries=SWEEP_ENTRIES)
+        document = run_sweep(case, out_dir, dims=args.dims, ladder=args.cells_per_wavelength,
+                             analytic_only=args.analytic_only, force=args.force)
+        if writer:
+            write_marker(out_dir, "sweep", extra_entries=SWEEP_ENTRIES)
     if is_writer():
         emit_result(args.json, document, format_sweep(document), f"report: {out_dir / 'report.html'}")
     return 0

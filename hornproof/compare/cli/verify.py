@@ -11,7 +11,7 @@ from ..jobs.refine import RefinementGoal
 from ..jobs.verify import default_out_dir, verify_case
 from ..numerics.figures import METRICS
 from ..report.format import MISSING_VALUE
-from ..output.folders import check_output_folder
+from ..output.folders import check_output_folder, claimed_output_folder, under_result_root
 from ..output.terminal import emit_result, safety_lines
 from .arguments import add_fdtd_run_arguments, distance_list
 from .predict import horn_3d_lines
@@ -136,10 +136,12 @@ def run(args):
         case = case.with_range(args.range_m)
     for warning in case.warnings:
         say(f"hornproof: warning: {warning}")
-    out_dir = check_output_folder(Path(args.out) if args.out else default_out_dir(case),
-                                  "--out" if args.out else "the default result folder")
+    option = "--out" if args.out is not None else "the default result folder"
+    out_dir = check_output_folder(Path(args.out) if args.out is not None else default_out_dir(case), option,
+                                  kind="verify", create_parents=args.out is None or under_result_root(args.out))
     goal = refinement_goal(case, args)
-    summary = verify_case(case, out_dir, force=args.force, goal=goal)
+    with claimed_output_folder(out_dir, option, "verify", hold=is_writer(), tell=say):
+        summary = verify_case(case, out_dir, force=args.force, goal=goal)
     if is_writer():
         emit_result(args.json, summary, format_verdicts(summary), f"report: {out_dir / 'report.html'}")
     return exit_status(summary["comparison"])

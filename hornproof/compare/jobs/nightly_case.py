@@ -9,6 +9,7 @@ as ``hornproof sweep`` does. The sweep's folder is ``sweep/`` inside the case's 
 from pathlib import Path
 
 from ..numerics.metrics import band_centre_index
+from ..output.ownership import write_marker
 from ..output.result_json import write_result_json
 from .messages import is_writer, say
 from .sweep import regress_figures, run_sweep
@@ -29,4 +30,7 @@ def run_nightly_case(case, out_dir, *, force=False, progress=None):
     summary["sweep_figures"] = regress_figures(document, band_centre_index(case.frequencies))
     if is_writer():
         write_result_json(Path(out_dir) / "result.json", summary)
+        # both folders stay published results of their kind (``hornproof report`` reads either)
+        write_marker(Path(out_dir) / "sweep", "sweep")
+        write_marker(Path(out_dir), "verify")
     return summary

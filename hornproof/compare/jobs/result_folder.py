@@ -9,6 +9,7 @@ import os
 
 import numpy as np
 
+from ...analytic.waveguide import te10_wave_impedance
 from ..output.fields_h5 import write_fields_h5
 from ..output.result_json import write_result_json
 from ..output.touchstone import write_s1p
@@ -21,7 +22,8 @@ def write_result_files(folder, case, summary, sim_results, ladder):
     write_fields_h5(folder / "fields.h5", finest, case_sha256=case.sha256, case_name=case.name)
     s11 = np.asarray(finest.extra["s11_real"]) + 1j * np.asarray(finest.extra["s11_imag"])
     write_s1p(folder / "s11.s1p", case.frequencies, s11, case_name=case.name,
-              solver_version=str(finest.run.get("meep_version", "")))
+              solver_version=str(finest.run.get("meep_version", "")),
+              wave_impedances=te10_wave_impedance(case.frequencies, case.horn.guide_a))
     write_result_json(folder / "result.json", summary)
 
 
@@ -33,7 +35,7 @@ def draw_model_image(case, cells_per_wavelength, out_dir):
     from ..report.model_image import model_image
 
     out_dir.parent.mkdir(parents=True, exist_ok=True)
-    path = out_dir.parent / f".{out_dir.name}.model.png"
+    path = out_dir.parent / f".{out_dir.name}.model-{os.getpid()}.png"  # one name per run
     layout, cuts = metal_cuts(case.horn, case.fdtd, cells_per_wavelength, frequencies=case.frequencies)
     if is_writer():
         model_image(layout, cuts, path)

@@ -15,8 +15,9 @@ from .result_folder import draw_model_image, move_model_image, write_result_file
 
 
 def default_simulate_folder(case, cells_per_wavelength):
-    """``results/<case>/<hash12>/fdtd-<N>``: where ``simulate`` writes without ``--out``."""
-    return Path("results") / case.name / case.sha256[:12] / f"fdtd-{cells_per_wavelength:g}"
+    """``results/<case>/<hash12>-fdtd-<N>``: where ``simulate`` writes without ``--out`` (beside,
+    not inside, verify's ``results/<case>/<hash12>``, so neither command's folder holds the other's)."""
+    return Path("results") / case.name / f"{case.sha256[:12]}-fdtd-{cells_per_wavelength:g}"
 
 
 def simulate_case(case, cells_per_wavelength, out_dir, *, force=False, image=False):
@@ -50,7 +51,7 @@ def simulate_case(case, cells_per_wavelength, out_dir, *, force=False, image=Fal
                 write_result_files(staging, case, summary, [result], [cells_per_wavelength])
                 move_model_image(image, staging)
 
-            publish_folder(out_dir, write)
+            publish_folder(out_dir, write, kind="simulate")
     finally:
         if image is not None:
             Path(image).unlink(missing_ok=True)

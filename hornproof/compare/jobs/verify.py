@@ -348,4 +348,4 @@ def publish(out_dir, case, summary, models, sim_results, ladder, convergence, im
         move_model_image(image, staging)
         build_report(staging)
 
-    publish_folder(out_dir, write)
+    publish_folder(out_dir, write, kind="verify")

@@ -36,6 +36,7 @@ from pathlib import Path
 
 from ...atomic import write_text_atomic
 from ...errors import InputError
+from ...limits import MAX_BASELINE_UNCERTAINTY
 
 __all__ = [
     "SCHEMA",
@@ -105,6 +106,7 @@ class Baseline:
     settings: dict = field(default_factory=dict)
     hornproof_version: str = ""
     recorded_utc: str = ""
+    computation_sha256: str = ""  # hash without [checks]/title; "" in baselines older than it
 
     def to_dict(self):
         return {
@@ -122,6 +124,7 @@ class Baseline:
             "settings": dict(self.settings),
             "hornproof_version": self.hornproof_version,
             "recorded_utc": self.recorded_utc,
+            **({"computation_sha256": self.computation_sha256} if self.computation_sha256 else {}),
         }
 
 
@@ -217,8 +220,12 @@ def write_baseline(path, baseline):
     write_text_atomic(path, text)
 
 
-def read_baseline(path):
+def read_baseline(path, expected_case=None):
     """Read a baseline file; None when it does not exist.
+
+    ``expected_case``: the case name the baseline must carry (a baseline copied from another
+    case is refused). An uncertainty beyond ``limits.MAX_BASELINE_UNCERTAINTY`` of its figure's
+    unit is refused too: it would call any change noise.
 
     Raises
     ------
@@ -251,6 +258,11 @@ def read_baseline(path):
         for key in ("case", "tier", "case_sha256"):
             if not isinstance(data.get(key), str):
                 raise ValueError(f"{key}: missing or not a string")
+        if expected_case is not None and data["case"] != expected_case:
+            raise ValueError(f"case: the baseline is for case {data['case']!r}, not {expected_case!r} "
+                             "(copied from another case?); move it away and run 'hornproof regress --update'")
+        if not isinstance(data.get("computation_sha256", ""), str):
+            raise ValueError("computation_sha256: not a string")
         frequencies = _frequency_list(data.get("frequencies_ghz"))
         raw = data.get("figures")
         if not isinstance(raw, dict) or not raw:
@@ -263,6 +275,12 @@ def read_baseline(path):
             u = _number_list(entry.get("uncertainty"), len(frequencies), f"figures.{name}.uncertainty")
             if any(x is not None and x < 0 for x in u):
                 raise ValueError(f"figures.{name}.uncertainty: negative uncertainty")
+            unit = FIGURE_UNITS.get(name, "")
+            bound = MAX_BASELINE_UNCERTAINTY.get("deg" if unit.startswith("deg") else "dB" if "dB" in unit else "")
+            if bound is not None and any(x is not None and x > bound for x in u):
+                raise ValueError(f"figures.{name}.uncertainty: {max(x for x in u if x is not None):g} {unit} "
+                                 f"is beyond {bound:g} {unit}: an uncertainty that large would call any change "
+                                 "noise; rerun 'hornproof regress --update' to record a real one")
             figures[name] = FigureRecord(values=values, uncertainty=u)
         for key in ("solver", "settings"):
             if not isinstance(data.get(key, {}), dict):
@@ -279,6 +297,7 @@ def read_baseline(path):
         settings=data.get("settings", {}),
         hornproof_version=str(data.get("hornproof_version", "")),
         recorded_utc=str(data.get("recorded_utc", "")),
+        computation_sha256=data.get("computation_sha256", ""),
     )
 
 

@@ -1,11 +1,13 @@
 """Output folders: checked before any run, so a mistake costs nothing and loses nothing.
 
 A command may write into (and replace) a folder only if it is new, empty, or a previous
-result of the same kind (it holds a ``result.json`` or ``sweep.json`` of a hornproof schema);
-anything else is refused with a one-line ``InputError`` before the solver starts.
+result of the same kind that hornproof can prove it made (its ownership marker,
+:mod:`.ownership`); anything else is refused with a one-line ``InputError`` naming the option
+and the path before the solver starts. Missing parent folders are created only for hornproof's
+own default result root (``results/...``), never for a path the user named.
 """
 
-import json
+import contextlib
 import os
 import shutil
 import tempfile
@@ -13,30 +15,39 @@ from pathlib import Path
 
 from ...atomic import replace_folder
 from ...errors import InputError
-from .result_json import RESULT_SCHEMA
-from .map_json import MAP_SCHEMA
-from .sweep_json import SWEEP_SCHEMA
-
-#: schema family (any version) of the marker file that makes a folder a hornproof result of each kind
-RESULT_MARKERS = {"result.json": RESULT_SCHEMA.split("/")[0] + "/", "sweep.json": SWEEP_SCHEMA.split("/")[0] + "/",
-                  "map.json": MAP_SCHEMA.split("/")[0] + "/"}
+from .output_lock import output_lock
+from .ownership import STAGING_SENTINEL, ownership_problem, remove_leftovers, stale_leftovers, write_marker
 
 
-def _is_result_folder(folder, markers):
-    for name in markers:
-        marker = folder / name
-        if not marker.is_file():
-            continue
-        try:
-            schema = json.loads(marker.read_text()).get("schema", "")
-        except (OSError, ValueError, AttributeError):
-            return False
-        if isinstance(schema, str) and schema.startswith(RESULT_MARKERS[name]):
-            return True
-    return False
+def path_text(path):
+    """A path as shown in a one-line message: control characters (a newline) escaped."""
+    text = os.fspath(path) if not isinstance(path, str) else path
+    if isinstance(text, bytes):
+        text = os.fsdecode(text)
+    return "".join(c if c.isprintable() else repr(c)[1:-1] for c in text)
 
 
-def check_output_folder(path, option="--out", markers=("result.json",), allow_partial=()):
+#: hornproof's own result root (relative to the working folder): the one place where missing
+#: parent folders are created for an output
+RESULT_ROOT = "results"
+
+
+def under_result_root(path, root=RESULT_ROOT):
+    """True when ``path`` lies inside the result root ``root`` (both resolved without requiring
+    them to exist): only there does hornproof create missing parent folders."""
+    try:
+        Path(path).resolve().relative_to(Path(root).resolve())
+    except (ValueError, OSError, RuntimeError):
+        return False
+    return Path(path).resolve() != Path(root).resolve()
+
+
+def _refuse_empty(path, option):
+    if path is None or str(path) == "":
+        raise InputError(f"{option}: the path is empty; name a folder or file, or leave the option out")
+
+
+def check_output_folder(path, option="--out", kind="verify", create_parents=False):
     """Refuse an output folder that would lose data or cannot be written; return it as a Path.
 
     Parameters
@@ -45,35 +56,48 @@ def check_output_folder(path, option="--out", markers=("result.json",), allow_pa
         The folder the command will (re)create.
     option : str
         How the user named it (for the message).
-    markers : tuple of str
-        Marker files (keys of ``RESULT_MARKERS``) that make an existing folder replaceable.
-    allow_partial : tuple of str
-        Names of entries that also make an existing folder acceptable (e.g. a sweep's
-        ``points`` cache, which a resumed sweep must reuse).
+    kind : str
+        The command's folder kind (``verify``, ``simulate``, ``sweep``): an existing folder is
+        accepted only if empty or marked by hornproof as this kind (:func:`.ownership_problem`).
+    create_parents : bool
+        Create missing parent folders (only for hornproof's own default result root); a path
+        the user named must have an existing parent.
     """
+    _refuse_empty(path, option)
     folder = Path(path)
-    text = str(path)
-    if folder.resolve() == Path.cwd().resolve() or folder.resolve() == Path(folder.anchor):
-        raise InputError(f"{text}: {option}: refusing to use the working folder or a root as a result folder; "
-                         "name a new folder")
-    if folder.exists() and not folder.is_dir():
-        raise InputError(f"{text}: {option}: exists and is not a folder; name a new folder")
-    if folder.is_dir():
-        entries = [p.name for p in folder.iterdir()]
-        acceptable = (not entries or _is_result_folder(folder, markers)
-                      or any(name in entries for name in allow_partial))
-        if not acceptable:
-            raise InputError(f"{text}: {option}: the folder exists and is not a hornproof result folder; "
-                             "refusing to replace it (name a new or empty folder)")
-    parent = folder.parent if not folder.is_dir() else folder
-    _check_writable(parent, text, option)
+    text = path_text(path)
+    try:
+        if folder.resolve() == Path.cwd().resolve() or folder.resolve() == Path(folder.anchor):
+            raise InputError(f"{text}: {option}: refusing to use the working folder or a root as a result folder; "
+                             "name a new folder")
+        if folder.is_symlink():
+            raise InputError(f"{text}: {option}: is a symbolic link; name a real folder")
+        if folder.exists() and not folder.is_dir():
+            raise InputError(f"{text}: {option}: exists and is not a folder; name a new folder")
+        problem = ownership_problem(folder, kind) if folder.is_dir() else None
+    except (OSError, RuntimeError) as error:  # RuntimeError: a symbolic-link loop in resolve()
+        raise InputError(f"{text}: {option}: cannot inspect the path ({_reason(error)})") from None
+    if problem:
+        raise InputError(f"{text}: {option}: {problem}; refusing to replace it (name a new or empty folder)")
+    parent = folder.parent
+    if not parent.is_dir() and not create_parents:
+        raise InputError(f"{text}: {option}: the parent folder {path_text(str(parent))!r} does not exist "
+                         "(hornproof creates only its own default result folders)")
+    _check_writable(parent, text, option, create=create_parents)
     return folder
 
 
-def _check_writable(folder, text, option):
-    """Create ``folder`` if needed and prove a file can be written there."""
+def _reason(error):
+    if isinstance(error, RuntimeError):
+        return "symbolic link loop"
+    return error.strerror or str(error)
+
+
+def _check_writable(folder, text, option, create=False):
+    """Prove a file can be written in ``folder`` (created first only when ``create``)."""
     try:
-        folder.mkdir(parents=True, exist_ok=True)
+        if create:
+            folder.mkdir(parents=True, exist_ok=True)
         handle, probe = tempfile.mkstemp(prefix=".hornproof-write-check-", dir=folder)
         os.close(handle)
         os.unlink(probe)
@@ -84,48 +108,111 @@ def _check_writable(folder, text, option):
 def check_new_file(path, option):
     """A file the command will create: its folder must exist and be writable, the file must not
     exist (never overwrite)."""
+    _refuse_empty(path, option)
     target = Path(path)
-    if target.exists():
-        raise InputError(f"{path}: {option}: the file exists; refusing to overwrite it")
+    text = path_text(path)
+    if target.exists() or target.is_symlink():
+        raise InputError(f"{text}: {option}: the file exists; refusing to overwrite it")
     if not target.parent.is_dir():
-        raise InputError(f"{path}: {option}: the folder {str(target.parent)!r} does not exist")
-    _check_writable(target.parent, str(path), option)
+        raise InputError(f"{text}: {option}: the folder {path_text(str(target.parent))!r} does not exist")
+    _check_writable(target.parent, text, option)
     return target
 
 
-def check_replaceable_file(path, option, is_own, what):
+def check_replaceable_file(path, option, is_own, what, create_parents=False):
     """A file the command will write, replacing only its own earlier output; return it as a Path.
 
     Refused with a one-line ``InputError`` naming the path and the option when it is a folder,
-    or an existing file that ``is_own(path)`` does not recognise (``what`` names the kind of
-    file expected, for the message). Its folder is created if needed and must be writable.
+    a symbolic link, not a regular file, or an existing file that ``is_own(path)`` does not
+    recognise (``what`` names the kind of file expected, for the message). Its folder must
+    exist (created only when ``create_parents``, for hornproof's default result root) and be
+    writable.
     """
+    _refuse_empty(path, option)
     target = Path(path)
-    if target.is_dir():
-        raise InputError(f"{path}: {option}: is a folder; name a file")
-    if target.exists() and not is_own(target):
-        raise InputError(f"{path}: {option}: the file exists and is not {what}; refusing to overwrite it")
-    _check_writable(target.parent, str(path), option)
+    text = path_text(path)
+    try:
+        if target.is_symlink():
+            raise InputError(f"{text}: {option}: is a symbolic link; refusing to write through it")
+        if target.is_dir():
+            raise InputError(f"{text}: {option}: is a folder; name a file")
+        if target.exists() and not target.is_file():
+            raise InputError(f"{text}: {option}: is not a regular file; refusing to write it")
+        if target.exists() and not is_own(target):
+            raise InputError(f"{text}: {option}: the file exists and is not {what}; refusing to overwrite it")
+    except OSError as error:
+        raise InputError(f"{text}: {option}: cannot inspect the path ({_reason(error)})") from None
+    if not target.parent.is_dir() and not create_parents:
+        raise InputError(f"{text}: {option}: the folder {path_text(str(target.parent))!r} does not exist "
+                         "(hornproof creates only its own default result folders)")
+    _check_writable(target.parent, text, option, create=create_parents)
     return target
 
 
-def publish_folder(out_dir, write):
+def publish_folder(out_dir, write, kind="verify"):
     """Build a result folder under a temporary name, then swap it into place.
 
-    ``write(staging)`` writes every file into ``staging``; only when it returns is the old
-    folder (if any) moved aside and the new one renamed to ``out_dir``. On any failure or
-    signal the staging folder is removed and ``out_dir`` is left as it was.
+    ``write(staging)`` writes every file into ``staging``; then the ownership marker of
+    ``kind`` is added, and only then is the old folder (if any) moved aside and the new one
+    renamed to ``out_dir``. The staging folder carries a sentinel (``.hornproof-staging``)
+    until just before the rename, so a leftover of a killed run is recognised as one. On any
+    failure or signal the staging folder is removed and ``out_dir`` is left as it was.
     """
     out_dir = Path(out_dir)
     out_dir.parent.mkdir(parents=True, exist_ok=True)
     staging = Path(tempfile.mkdtemp(prefix=f".{out_dir.name}.partial-", dir=out_dir.parent))
     try:
+        (staging / STAGING_SENTINEL).touch()
         write(staging)
+        write_marker(staging, kind)
+        os.unlink(staging / STAGING_SENTINEL)
         os.chmod(staging, 0o755)
         old = Path(tempfile.mkdtemp(prefix=f".{out_dir.name}.old-", dir=out_dir.parent))
         os.rmdir(old)
         replace_folder(staging, out_dir, old)
+    except OSError as error:
+        shutil.rmtree(staging, ignore_errors=True)
+        raise _named_for_user(error, staging, out_dir) from error
     except BaseException:
         shutil.rmtree(staging, ignore_errors=True)
         raise
     return out_dir
+
+
+def _named_for_user(error, staging, out_dir):
+    """``error`` naming the file in the user's folder instead of the staging folder."""
+    name = os.fsdecode(error.filename) if error.filename is not None else None
+    if name is None or not name.startswith(str(staging)):
+        return error if name is not None else OSError(error.errno, error.strerror, str(out_dir))
+    return OSError(error.errno, error.strerror, str(out_dir) + name[len(str(staging)):])
+
+
+@contextlib.contextmanager
+def claimed_output_folder(out_dir, option, kind, *, hold=True, tell=None):
+    """Hold the output lock of ``out_dir`` for a run, re-check ownership under it, and clear
+    the leftovers of killed runs of the same output (:func:`.ownership.stale_leftovers`).
+
+    Parameters
+    ----------
+    out_dir : Path
+        Checked already by :func:`check_output_folder`.
+    option : str
+        How the user named it (for messages).
+    kind : str
+        The command's folder kind.
+    hold : bool
+        False on the MPI ranks that do not write: they neither lock nor clean.
+    tell : callable, optional
+        Receives one line per leftover removed.
+    """
+    if not hold:
+        yield Path(out_dir)
+        return
+    with output_lock(out_dir, option):
+        problem = ownership_problem(out_dir, kind) if Path(out_dir).is_dir() else None
+        if problem:  # another run published something different between the check and the lock
+            raise InputError(f"{path_text(out_dir)}: {option}: {problem}; refusing to replace it")
+        for removed in remove_leftovers(stale_leftovers(out_dir)):
+            if tell is not None:
+                tell(f"hornproof: removed a leftover of a killed run: {path_text(removed)}")
+        yield Path(out_dir)

@@ -12,11 +12,13 @@ S11 here is the reflection coefficient of the TE10 *waveguide mode* at the feed'
 plane: the complex amplitude of the backward TE10 wave divided by that of the forward wave,
 both taken from the solver's fields by projection onto the mode profile. A wave ratio in a
 guide is normalised to the mode's own wave impedance Z_TE = η0 / √(1 − (f_c/f)²), which varies
-with frequency; there is no 50 Ω anywhere in the model. Touchstone nevertheless needs a
-reference resistance on the option line, so we write the nominal ``R 50`` (configurable) and
-say in the comments that the values are already normalised to the guide's TE10 wave impedance.
-A reader must therefore use them as they are and must **not** renormalise them to another
-impedance: |S11|, return loss and VSWR are the physically meaningful figures.
+with frequency; there is no 50 Ω anywhere in the model. Touchstone's option line can hold only
+one constant resistance, so we write ``R 1`` there (configurable) — the values are *normalised*
+— and say in the comments what they are normalised to: the guide's TE10 wave impedance,
+listed per frequency when the caller gives it. A reader must therefore use them as they are
+and must **not** renormalise them to another impedance: |S11|, return loss and VSWR are the
+physically meaningful figures. (Earlier files wrote ``R 50``, which a reader could take for a
+50 Ω port: it was not one.)
 """
 
 import datetime
@@ -35,7 +37,9 @@ __all__ = ["OnePortData", "write_s1p", "read_s1p"]
 #: Touchstone frequency-unit keywords and their size in Hz (spec: option line).
 FREQUENCY_UNITS = {"HZ": 1.0, "KHZ": 1e3, "MHZ": 1e6, "GHZ": GHZ}
 
-REFERENCE_NOTE = "reference impedance: the guide's TE10 wave impedance, normalised"
+REFERENCE_NOTE = ("reference: the feed guide's TE10 wave impedance Z_TE(f) = eta0 / sqrt(1 - (fc/f)^2), "
+                  "not 50 ohm; the option line's R holds one constant only, so R there marks "
+                  "normalised values and is not an impedance of the model")
 
 
 @dataclass
@@ -69,7 +73,7 @@ def _clean_comment(text):
 
 
 def write_s1p(path, frequencies, s11, *, case_name, solver_version, version=1,
-              reference_resistance=50.0, created=None, comments=()):
+              reference_resistance=1.0, created=None, comments=(), wave_impedances=None):
     """Write a one-port Touchstone file atomically.
 
     Parameters
@@ -87,7 +91,10 @@ def write_s1p(path, frequencies, s11, *, case_name, solver_version, version=1,
     version : {1, 2}
         Touchstone version 1 (option line only) or 2.0 (keyword lines).
     reference_resistance : float
-        Ohm, for the option line (nominal: see the module notes).
+        The option line's R (1: normalised values; see the module notes).
+    wave_impedances : array_like, optional
+        The TE10 wave impedance (ohm) at each frequency, listed in the comments as the true
+        reference of each value.
     created : datetime.datetime, optional
         Time stamp for the comments (UTC now by default).
     comments : iterable of str
@@ -123,6 +130,12 @@ def write_s1p(path, frequencies, s11, *, case_name, solver_version, version=1,
         f"! {REFERENCE_NOTE}",
         "! S11 is the TE10 mode reflection (backward/forward wave); do not renormalise to R.",
     ]
+    if wave_impedances is not None:
+        impedances = np.asarray(wave_impedances, dtype=float)
+        if impedances.shape != frequencies.shape:
+            raise ValueError("wave_impedances: one value per frequency expected")
+        lines.append("! Z_TE (ohm) per frequency: " + ", ".join(
+            f"{f / GHZ:.6g} GHz {z:.2f}" for f, z in zip(frequencies, impedances)))
     lines += [f"! {_clean_comment(c)}" for c in comments]
     option = f"# GHZ S RI R {reference_resistance:g}"
     if version == 2:

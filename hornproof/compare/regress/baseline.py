@@ -26,7 +26,8 @@ def settings_record(case):
     return json.loads(json.dumps(record, sort_keys=True, default=str))
 
 
-def baseline_from_result(result, *, case, tier, settings, hornproof_version, recorded_utc=None):
+def baseline_from_result(result, *, case, tier, settings, hornproof_version, recorded_utc=None,
+                         computation_sha256=""):
     """Build a Baseline from a finished run's summary.
 
     Parameters
@@ -57,4 +58,5 @@ def baseline_from_result(result, *, case, tier, settings, hornproof_version, rec
         settings=settings,
         hornproof_version=hornproof_version,
         recorded_utc=recorded_utc,
+        computation_sha256=computation_sha256,
     )

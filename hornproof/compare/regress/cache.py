@@ -16,6 +16,7 @@ partial folder, which lookups never read. A failed run's folder is kept for diag
 ``.<key>.failed`` (also never read as a result).
 """
 
+import hashlib
 import json
 import os
 import shutil
@@ -104,7 +105,8 @@ class ResultCache:
             return None
         problem = None
         try:
-            result = json.loads(path.read_text(encoding="utf-8"))
+            data = path.read_bytes()
+            result = json.loads(data.decode("utf-8"))
         except FileNotFoundError:
             problem = "no result.json"
         except (OSError, UnicodeDecodeError, ValueError) as error:
@@ -116,6 +118,8 @@ class ResultCache:
                 problem = f"schema: {result.get('schema')!r}, expected {RESULT_SCHEMA!r}"
             elif expected_case_sha256 is not None and result.get("case_sha256") != expected_case_sha256:
                 problem = "case_sha256: does not match the case"
+            elif hashlib.sha256(data).hexdigest() != _recorded_result_sha256(path.parent / KEY_FILE):
+                problem = "content does not match the hash recorded in cache-key.json (edited or corrupt)"
         if problem is not None:
             if notes is not None:
                 notes.append(f"{path}: {problem}; ignored, the case runs again")
@@ -150,7 +154,8 @@ class ResultCache:
             raise ValueError(f"{partial / RESULT_FILE}: not a finished result ({error})") from None
         if not isinstance(result, dict) or result.get("schema") != RESULT_SCHEMA:
             raise ValueError(f"{partial / RESULT_FILE}: schema: expected {RESULT_SCHEMA!r}")
-        write_text_atomic(partial / KEY_FILE, json.dumps(inputs, indent=2, sort_keys=True) + "\n")
+        recorded = dict(inputs, result_sha256=hashlib.sha256((partial / RESULT_FILE).read_bytes()).hexdigest())
+        write_text_atomic(partial / KEY_FILE, json.dumps(recorded, indent=2, sort_keys=True) + "\n")
         final = self.entry_dir(case_name, key)
         # another run may have published the same key meanwhile (or a broken entry is in the
         # way): replace_folder moves it aside first
@@ -180,3 +185,14 @@ class ResultCache:
         For runners that return the summary without writing it (verify writes it itself).
         """
         write_text_atomic(Path(partial) / RESULT_FILE, json.dumps(result, indent=2, sort_keys=True) + "\n")
+
+
+def _recorded_result_sha256(key_file):
+    """The ``result_sha256`` recorded in an entry's ``cache-key.json``, or ``""`` (matches no
+    content, so the case runs again) when it is missing, unreadable or from an entry written
+    before the hash was recorded."""
+    try:
+        recorded = json.loads(key_file.read_text(encoding="utf-8")).get("result_sha256")
+    except (OSError, ValueError, AttributeError):
+        return ""
+    return recorded if isinstance(recorded, str) else ""

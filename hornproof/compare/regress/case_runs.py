@@ -6,6 +6,7 @@ a failed run's folder is kept for diagnosis. Under ``mpirun`` the cases are spre
 groups (:mod:`hornproof.compare.regress.plan`, :func:`hornproof.sim.mpi.process_groups`).
 """
 
+import errno
 import json
 import time
 import traceback
@@ -65,12 +66,20 @@ def _check_result(path, case_sha256):
         raise ValueError(f"{path}: {error}") from None
 
 
+#: the reason of a case that failed on a full disk (``regress`` exits 3 for it: out of resources)
+NO_SPACE = "no space left on the device"
+
+
 def _call_runner(runner, tier_case, partial, *, force):
     """Run one case; return (summary or None, error or None) where error is (reason, traceback)."""
     try:
         return runner(tier_case, partial, force=force, progress=None), None
     except HornproofError as exc:
         return None, (str(exc).splitlines()[0] if str(exc) else type(exc).__name__, "")
+    except OSError as exc:
+        if exc.errno in (errno.ENOSPC, errno.EDQUOT):  # a resource, not a bug: one line, no traceback
+            return None, (f"{exc.filename or partial}: {NO_SPACE}", "")
+        return None, (f"{type(exc).__name__}: {exc}", traceback.format_exc())
     except Exception as exc:  # noqa: BLE001 - a bug in one case must not stop the suite
         return None, (f"{type(exc).__name__}: {exc}", traceback.format_exc())
 

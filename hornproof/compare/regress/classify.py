@@ -182,7 +182,20 @@ def _change_at(index, base_values, base_uncertainty, new_values, new_uncertainty
     return _Change(abs(delta) / max(tolerance, noise, 1e-300), regressed, index, delta, noise)
 
 
-def compare_case(baseline, case_sha256, frequencies_ghz, figures, checks):
+#: the end of every not-comparable reason: what to do about it
+NOT_COMPARABLE_HINT = "review the change, then run 'hornproof regress --update' to accept it"
+
+
+def comparable(baseline, case_sha256, computation_sha256=""):
+    """True when ``baseline`` was recorded for the same computation: by the computation hash
+    (which leaves out ``[checks]`` tolerances and the title) when both sides have one, else by
+    the whole case hash (baselines recorded before the computation hash existed)."""
+    if baseline.computation_sha256 and computation_sha256:
+        return baseline.computation_sha256 == computation_sha256
+    return baseline.case_sha256 == case_sha256
+
+
+def compare_case(baseline, case_sha256, frequencies_ghz, figures, checks, computation_sha256=""):
     """Verdicts for every figure of one case's new result.
 
     Parameters
@@ -195,6 +208,9 @@ def compare_case(baseline, case_sha256, frequencies_ghz, figures, checks):
         The new result's figures (:func:`hornproof.compare.output.baseline_file.figures_from_result`).
     checks : dict
         The case's tolerances.
+    computation_sha256 : str
+        Hash of what defines the computation (:func:`comparable`); editing only tolerances
+        keeps a baseline comparable.
 
     Returns
     -------
@@ -209,16 +225,19 @@ def compare_case(baseline, case_sha256, frequencies_ghz, figures, checks):
         if baseline is None:
             verdicts.append(FigureVerdict(name, "new", tolerance, key, reason="no baseline"))
             continue
-        if baseline.case_sha256 != case_sha256:
+        if not comparable(baseline, case_sha256, computation_sha256):
+            old = baseline.computation_sha256 if baseline.computation_sha256 and computation_sha256 \
+                else baseline.case_sha256
+            new = computation_sha256 if baseline.computation_sha256 and computation_sha256 else case_sha256
             verdicts.append(FigureVerdict(
                 name, "not-comparable", tolerance, key,
-                reason=f"case or tier settings changed since the baseline (hash {baseline.case_sha256[:12]} -> "
-                       f"{str(case_sha256)[:12]}); rerun with --update to accept",
+                reason=f"case or tier settings changed since the baseline (hash {old[:12]} -> "
+                       f"{str(new)[:12]}); {NOT_COMPARABLE_HINT}",
             ))
             continue
         if not _same_frequencies(baseline.frequencies_ghz, frequencies_ghz):
             verdicts.append(FigureVerdict(name, "not-comparable", tolerance, key,
-                                          reason="frequencies differ from the baseline's"))
+                                          reason=f"frequencies differ from the baseline's; {NOT_COMPARABLE_HINT}"))
             continue
         base = baseline.figures.get(name)
         if base is None:

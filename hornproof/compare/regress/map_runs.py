@@ -17,6 +17,8 @@ baselines hold per-frequency figures of one horn only.
 from pathlib import Path
 
 from ...sim.mpi import SerialWorld
+from ..jobs.messages import is_writer
+from ..output.ownership import write_marker
 
 __all__ = ["MAP_FOLDER", "MAP_TIERS", "with_map"]
 
@@ -34,6 +36,9 @@ def with_map(verify_case, run_map):
         summary = verify_case(case, out_dir, force=force, progress=progress)
         if getattr(case, "map", None) is not None and getattr(case, "tier", None) in MAP_TIERS:
             run_map(case, Path(out_dir) / MAP_FOLDER, force=force, world=SerialWorld())
+            if is_writer():  # both folders stay published results of their kind (``report`` reads either)
+                write_marker(Path(out_dir) / MAP_FOLDER, "map")
+                write_marker(Path(out_dir), "verify")
         return summary
 
     return runner

@@ -27,6 +27,7 @@ class CaseOutcome:
     report: str = ""
     baseline_file: str = ""
     baseline_case_sha256: str = ""
+    computation_sha256: str = ""
     figures: list = field(default_factory=list)
     result: dict = field(default=None, repr=False)
     cache_inputs: dict = field(default=None, repr=False)

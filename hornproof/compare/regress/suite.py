@@ -125,10 +125,11 @@ def _prepare(entries, tier, baselines_dir):
         key, inputs = cache_key(entry.tier_case.sha256, tier, settings, solver, build)
         folder = Path(baselines_dir) if baselines_dir is not None else entry.path.parent / "baselines"
         stored = baseline_path(folder, entry.case.name, tier)
-        entry.baseline = read_baseline(stored)
+        entry.baseline = read_baseline(stored, expected_case=entry.case.name)
         entry.outcome = CaseOutcome(
             name=entry.case.name, case_file=display_path(entry.path), tier=tier,
             case_sha256=str(entry.tier_case.sha256), key=key, baseline_file=display_path(stored),
+            computation_sha256=str(entry.tier_case.computation_sha256),
             cache_inputs=inputs, settings=settings,
         )
 
@@ -184,7 +185,8 @@ def _classify(entries):
             outcome.reason = f"{outcome.result_dir}/{RESULT_FILE}: {error}"
             continue
         outcome.figures = compare_case(entry.baseline, outcome.case_sha256, frequencies, figures,
-                                       getattr(entry.case, "checks", {}) or {})
+                                       getattr(entry.case, "checks", {}) or {},
+                                       computation_sha256=outcome.computation_sha256)
         outcome.status = case_status(outcome.figures)
         report = Path(outcome.result_dir) / "report.html" if outcome.result_dir else None
         outcome.report = str(report) if report is not None and report.is_file() else ""

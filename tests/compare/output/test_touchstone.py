@@ -30,8 +30,9 @@ def test_written_file_reads_back_through_scikit_rf(tmp_path, version):
     # tolerance: 1e-9 absolute on S11 (we write 17 significant digits), 1e-12 relative on f
     np.testing.assert_allclose(network.f, frequencies, rtol=1e-12)
     np.testing.assert_allclose(network.s[:, 0, 0], s11, rtol=0, atol=1e-9)
-    # the option line's R 50 is what skrf reports as the port reference (spec: "R n")
-    np.testing.assert_allclose(network.z0[:, 0].real, 50.0)
+    # the option line's R 1 (normalised values) is what skrf reports as the port reference
+    # (spec: "R n"); hornproof's S11 is normalised to the guide, not to 50 ohm
+    np.testing.assert_allclose(network.z0[:, 0].real, 1.0)
     ours = read_s1p(path)
     np.testing.assert_allclose(ours.frequencies, network.f, rtol=1e-12)
     np.testing.assert_allclose(ours.s11, network.s[:, 0, 0], rtol=0, atol=1e-12)
@@ -47,11 +48,11 @@ def test_option_line_and_comments(tmp_path):
     lines = text.splitlines()
     # spec 1.1: exactly one option line "# <freq unit> <parameter> <format> R <n>"
     options = [line for line in lines if line.startswith("#")]
-    assert options == ["# GHZ S RI R 50"]
+    assert options == ["# GHZ S RI R 1"]  # normalised: the guide's reference is no 50 ohm
     # spec: comments start with "!"; a line break in the case name must not make a data line
     assert "! case: two lines" in lines
     assert "! created: 2026-01-02T03:04:05+00:00" in lines
-    assert any("TE10 wave impedance, normalised" in line for line in lines)
+    assert any("TE10 wave impedance" in line and "not 50 ohm" in line for line in lines)
     data = [line for line in lines if line and line[0] not in "!#"]
     assert len(data) == len(frequencies)
     assert open(path).read() == text
@@ -122,3 +123,20 @@ def test_reader_refuses_a_two_port_file(tmp_path):
                     "1 0 0 0 0 0 0 0 0\n[End]\n")
     with pytest.raises(ValueError, match="Number of Ports"):
         read_s1p(path)
+
+
+def test_header_lists_the_guide_wave_impedance_as_the_reference(tmp_path):
+    # The TE10 wave impedance eta0 / sqrt(1 - (fc/f)^2) (Pozar, Microwave Engineering, 4th ed.,
+    # sec. 3.3) of WR-90 (a = 22.86 mm, fc = c/2a = 6.5572 GHz) at 10 GHz, by hand:
+    # (fc/f)^2 = 0.42997, sqrt(0.57003) = 0.75500, 376.73 / 0.75500 = 499.0 ohm.
+    # The header must name that reference, never a 50 ohm port.
+    from hornproof.analytic.waveguide import te10_wave_impedance
+
+    frequencies = np.array([10e9, 11e9])
+    impedances = te10_wave_impedance(frequencies, 22.86e-3)
+    assert impedances[0] == pytest.approx(499.0, abs=0.2)
+    text = write_s1p(tmp_path / "g.s1p", frequencies, np.array([0.1, 0.2j]), case_name="c",
+                     solver_version="meep", wave_impedances=impedances)
+    header = [line for line in text.splitlines() if line.startswith("!")]
+    assert any("10 GHz 498.97" in line for line in header)
+    assert "R 50" not in text

@@ -758,6 +758,7 @@ def test_foreign_report_file_is_never_overwritten(workspace, capsys, option):
 
 
 def test_own_report_files_are_replaced_by_the_next_run(workspace, capsys):
+    (workspace["root"] / "out").mkdir()  # a named folder must exist: hornproof makes only its own
     argv = ("--junit", "out/suite.xml", "--summary", "out/suite.json", "cases/horn-a.toml")
     assert _run(workspace, *argv, capsys=capsys)[0] == 0
     assert json.loads((workspace["root"] / "out" / "suite.json").read_text())["baselines_updated"] == []
@@ -777,3 +778,18 @@ def test_one_version_string_in_summary_baseline_and_junit(workspace, capsys):
     junit = ET.parse(workspace["root"] / "results" / "regress-quick.junit.xml").getroot()
     properties = {p.get("name"): p.get("value") for p in junit.iter("property")}
     assert properties["hornproof_version"] == build
+
+
+def test_full_disk_during_a_case_run_is_one_line_and_exit_3(workspace, capsys):
+    # A full disk simulated: the runner's write fails with ENOSPC (POSIX errno.h). README: exit 3
+    # when the run fails for want of resources; one line per failed case, no traceback.
+    import errno as errno_module
+
+    def full_disk_runner(case, out_dir, **kwargs):
+        raise OSError(errno_module.ENOSPC, os.strerror(errno_module.ENOSPC), str(out_dir / "fields.h5"))
+
+    code = _main(["cases/horn-a.toml"], full_disk_runner)
+    err = capsys.readouterr().err
+    assert code == 3
+    assert "Traceback" not in err and "no space left on the device" in err
+    assert sum("run failed" in line for line in err.splitlines()) == 1
