@@ -5,6 +5,8 @@ reader module. A tier or a grid override is applied here, after every table is v
 is part of the hashed definition.
 """
 
+import numpy as np
+
 from ...hashing import content_sha256
 from ...sim.settings import FdtdSettings
 from ..numerics.metrics import band_centre_index
@@ -106,7 +108,10 @@ def _validated_fields(path, raw, tier, cells_override):
 
 
 def _centre_frequency(frequencies):
-    """The band frequency a sweep compares at (``numerics.metrics.band_centre_index``), Hz."""
+    """The band frequency a sweep compares at (``numerics.metrics.band_centre_index``), Hz;
+    NaN for a band the plausibility table will refuse anyway (not finite)."""
+    if not np.all(np.isfinite(frequencies)):
+        return float("nan")
     return float(frequencies[band_centre_index(frequencies)])
 
 

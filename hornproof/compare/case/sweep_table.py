@@ -9,6 +9,8 @@ point's horn (``sim.grid_fit.default_ladder``); each rung is fitted to the point
 
 import re
 
+from ...limits import MAX_CELLS_PER_WAVELENGTH
+
 from .fdtd_table import read_cells_ladder, read_dims
 from .sweepspec import GRID_RATIOS, SWEEP_PARAMETERS, SweepSpec, sweep_applies_to
 from .values import CaseProblem, check_keys, describe_value, read_choice, read_number_list
@@ -48,8 +50,12 @@ def read_sweep(table, horn, fdtd_fields, frequency=float("nan")):
         value = table["cells_per_wavelength"]
         cells = read_cells_ladder(value, "sweep.cells_per_wavelength")
         if not isinstance(value, list):
-            cells = read_cells_ladder([round(cells[0] * ratio, 2) for ratio in GRID_RATIOS],
-                                      "sweep.cells_per_wavelength (x 1, 1.4, 2)")
+            cells = tuple(round(cells[0] * ratio, 2) for ratio in GRID_RATIOS)
+            if max(cells) > MAX_CELLS_PER_WAVELENGTH:
+                raise CaseProblem("sweep.cells_per_wavelength",
+                                  f"one number N runs N, 1.4 N and 2 N: the x 2 rung ({max(cells):g} cells per "
+                                  f"wavelength) is beyond the cap of {MAX_CELLS_PER_WAVELENGTH:g}; use at most "
+                                  f"{MAX_CELLS_PER_WAVELENGTH / GRID_RATIOS[-1]:g}")
     spec = SweepSpec(parameter=parameter, values=tuple(values), dims=dims,
                      cells_per_wavelength=cells, frequency=float(frequency),
                      principal_plane=principal_plane)
