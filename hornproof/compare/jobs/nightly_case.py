@@ -28,7 +28,7 @@ def run_nightly_case(case, out_dir, *, force=False, progress=None):
     document = run_sweep(case, Path(out_dir) / "sweep", analytic_only=case.tier != FDTD_SWEEP_TIER, force=force,
                          log=say)
     summary["sweep_figures"] = regress_figures(document, band_centre_index(case.frequencies))
-    if is_writer():
+    if is_writer() and (Path(out_dir) / "sweep").is_dir():
         write_result_json(Path(out_dir) / "result.json", summary)
         # both folders stay published results of their kind (``hornproof report`` reads either)
         write_marker(Path(out_dir) / "sweep", "sweep")

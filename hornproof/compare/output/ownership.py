@@ -157,3 +157,14 @@ def remove_leftovers(paths):
 def glob_escape(text):
     """``text`` with glob's special characters made literal."""
     return "".join(f"[{c}]" if c in "*?[]" else c for c in text)
+
+
+def remove_unused_folder(folder):
+    """Remove ``folder`` if it holds nothing but its marker and empty folders (a run that was
+    refused after claiming it); anything else is left as it is."""
+    folder = Path(folder)
+    entries = list(folder.iterdir()) if folder.is_dir() else []
+    if all(p.name == MARKER_NAME or (p.is_dir() and not p.is_symlink() and not any(p.iterdir())) for p in entries):
+        for entry in entries:
+            entry.rmdir() if entry.is_dir() else entry.unlink()
+        folder.rmdir()

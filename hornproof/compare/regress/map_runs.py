@@ -36,7 +36,8 @@ def with_map(verify_case, run_map):
         summary = verify_case(case, out_dir, force=force, progress=progress)
         if getattr(case, "map", None) is not None and getattr(case, "tier", None) in MAP_TIERS:
             run_map(case, Path(out_dir) / MAP_FOLDER, force=force, world=SerialWorld())
-            if is_writer():  # both folders stay published results of their kind (``report`` reads either)
+            if is_writer() and (Path(out_dir) / MAP_FOLDER).is_dir():
+                # both folders stay published results of their kind (``report`` reads either)
                 write_marker(Path(out_dir) / MAP_FOLDER, "map")
                 write_marker(Path(out_dir), "verify")
         return summary

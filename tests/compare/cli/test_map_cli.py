@@ -81,4 +81,6 @@ def test_report_rebuilds_a_map_page_and_refuses_a_foreign_map_json(tmp_path):
     decoy.mkdir()
     (decoy / "map.json").write_text('{"schema": "somebody.else/3"}')
     done = run_cli("report", str(decoy))
-    assert done.returncode == 2 and "schema" in done.stderr and "Traceback" not in done.stderr
+    # not hornproof's (no ownership marker): refused before its map.json is read (issue 11's rule)
+    assert done.returncode == 2 and "not a published hornproof result folder" in done.stderr
+    assert "Traceback" not in done.stderr
