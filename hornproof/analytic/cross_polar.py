@@ -28,6 +28,8 @@ from an aperture model therefore says which equivalent it used. Pure numpy.
 
 import numpy as np
 
+from .phase_centre import main_lobe_window
+
 
 def ludwig3(e_theta, e_phi, phi_rad):
     """(co, cross) components of (E_θ, E_φ) at azimuth φ (rad), reference polarisation y."""
@@ -56,7 +58,7 @@ def short_dipole(theta_rad, phi_rad):
     return amp * np.cos(theta_rad) * np.sin(phi_rad), amp * np.cos(phi_rad) * np.ones_like(theta_rad)
 
 
-def peak_cross_polar(theta_deg, co, cross, *, max_angle_deg=90.0):
+def peak_cross_polar(theta_deg, co, cross, *, max_angle_deg=90.0, main_lobe_db=None):
     """Peak cross-polar level relative to the co-polar peak, and its angle, on one cut.
 
     Parameters
@@ -67,6 +69,9 @@ def peak_cross_polar(theta_deg, co, cross, *, max_angle_deg=90.0):
         Co- and cross-polar fields (complex or real amplitudes on a common scale).
     max_angle_deg : float
         Only |θ| ≤ this counts (default 90°: the front hemisphere).
+    main_lobe_db : float, optional
+        If given (negative), only the co-polar main lobe down to this level below its peak
+        counts (``phase_centre.main_lobe_window``): where a feed actually illuminates.
 
     Returns
     -------
@@ -75,22 +80,29 @@ def peak_cross_polar(theta_deg, co, cross, *, max_angle_deg=90.0):
         zero), ``angle_deg`` where the cross-polar peak is (NaN when it is zero or all NaN).
     """
     theta = np.asarray(theta_deg, dtype=float)
-    keep = np.abs(theta) <= max_angle_deg
-    p_co = np.abs(np.asarray(co))[..., keep] ** 2
-    p_x = np.abs(np.asarray(cross))[..., keep] ** 2
-    lead = p_co.shape[:-1]
-    p_co = p_co.reshape(-1, keep.sum())
-    p_x = p_x.reshape(-1, keep.sum())
-    level = np.full(p_co.shape[0], np.nan)
-    angle = np.full(p_co.shape[0], np.nan)
-    for i in range(p_co.shape[0]):
-        if not (np.any(np.isfinite(p_co[i])) and np.any(np.isfinite(p_x[i]))):
+    front = np.abs(theta) <= max_angle_deg
+    p_co_all = np.abs(np.asarray(co)) ** 2
+    p_x_all = np.abs(np.asarray(cross)) ** 2
+    lead = p_co_all.shape[:-1]
+    p_co_all = p_co_all.reshape(-1, theta.size)
+    p_x_all = p_x_all.reshape(-1, theta.size)
+    level = np.full(p_co_all.shape[0], np.nan)
+    angle = np.full(p_co_all.shape[0], np.nan)
+    for i in range(p_co_all.shape[0]):
+        keep = front.copy()
+        if main_lobe_db is not None:
+            with np.errstate(divide="ignore"):
+                lobe = main_lobe_window(theta, 10 * np.log10(p_co_all[i]), main_lobe_db, max_angle_deg)
+            keep = np.zeros_like(front)
+            keep[lobe] = True
+        p_co, p_x = p_co_all[i, keep], p_x_all[i, keep]
+        if not (np.any(np.isfinite(p_co)) and np.any(np.isfinite(p_x))):
             continue
-        peak_co = np.nanmax(p_co[i])
-        j = int(np.nanargmax(p_x[i]))
-        if p_x[i, j] <= 0:
+        peak_co = np.nanmax(p_co)
+        j = int(np.nanargmax(p_x))
+        if p_x[j] <= 0:
             level[i] = -np.inf
             continue
-        level[i] = 10 * np.log10(p_x[i, j] / peak_co)
+        level[i] = 10 * np.log10(p_x[j] / peak_co)
         angle[i] = theta[keep][j]
     return level.reshape(lead), angle.reshape(lead)

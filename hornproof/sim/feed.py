@@ -87,6 +87,19 @@ def add_mode_monitor(sim, layout, meep_frequencies):
     return sim.add_dft_fields([getattr(mp, name)], np.asarray(meep_frequencies), where=where)
 
 
+#: S11 frequencies of the dense band: the mode monitor's DFT is cheap (one plane of the feed
+#: guide), so S11 is read at this many points across [f_min, f_max] of the same run
+DENSE_BAND_POINTS = 101
+
+
+def dense_band(frequencies, points=DENSE_BAND_POINTS):
+    """``points`` frequencies (Hz) evenly over [min, max] of the band; None for a one-frequency band."""
+    f = np.asarray(frequencies, dtype=float)
+    if f.size < 2 or not f.max() > f.min():
+        return None
+    return np.linspace(f.min(), f.max(), int(points))
+
+
 def add_guide_flux(sim, layout, meep_frequencies):
     """Net power flux through the feed guide's cross-section (towards the horn)."""
     import meep as mp

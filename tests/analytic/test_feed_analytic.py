@@ -215,3 +215,16 @@ def test_full_and_quadrant_grids_agree_and_geometry_helpers():
     theta = np.arange(-90.0, 90.5, 0.5)
     cut = 10 * np.log10(np.clip(np.cos(np.radians(theta)), 1e-30, None) ** 2)
     assert edge_taper_db(theta, cut, 60.0) == pytest.approx(20 * np.log10(0.5), abs=1e-3)
+
+
+def test_beamwidth_at_level_of_a_cosine_power_pattern():
+    # exact: a cos^n θ power pattern is −10 dB at cos θ = 10^(−1/n) (linear interpolation in dB
+    # on a 0.1° grid is good to ~1e-3°)
+    from hornproof.analytic.beam_level import beamwidth_at_level
+    theta = np.arange(-90.0, 90.05, 0.1)
+    for n in (2, 6, 20):
+        cut = 10 * n * np.log10(np.clip(np.cos(np.radians(theta)), 1e-30, None))
+        expected = 2 * np.degrees(np.arccos(10 ** (-1 / n)))
+        assert beamwidth_at_level(theta, cut, -10.0) == pytest.approx(expected, abs=2e-3)
+    flat = np.zeros_like(theta)
+    assert np.isnan(beamwidth_at_level(theta, flat, -10.0))

@@ -9,6 +9,7 @@ from ...hashing import content_sha256
 from ...sim.settings import FdtdSettings
 from .band_table import band_frequencies, check_band_against_guide, guide_warnings, read_band
 from .checks_table import read_checks
+from .feed_table import read_feed
 from .fdtd_table import grid_warnings, read_fdtd
 from .horn_table import read_horn
 from .sweep_table import read_sweep
@@ -18,7 +19,7 @@ from .values import CaseProblem, check_keys, describe_value, input_error, read_t
 #: The case-file format this package reads.
 FORMAT_VERSION = 1
 
-TOP_KEYS = ("format", "title", "horn", "band", "fdtd", "checks", "sweep", "tiers")
+TOP_KEYS = ("format", "title", "horn", "band", "fdtd", "checks", "sweep", "tiers", "feed")
 
 
 def case_fields(path, raw, *, tier=None, cells_override=None):
@@ -56,6 +57,7 @@ def _validated_fields(path, raw, tier, cells_override):
     fdtd_fields, quick_2d = read_fdtd(read_table(raw, "fdtd", required=False), horn,
                                       float(max(band_frequencies(band))))
     checks, check_model = read_checks(read_table(raw, "checks", required=False))
+    feed = read_feed(read_table(raw, "feed", required=False))
     sweep = read_sweep(read_table(raw, "sweep", required=False), horn, fdtd_fields)
     tiers = read_tiers(read_table(raw, "tiers", required=False), horn, band, fdtd_fields,
                        quick_2d)
@@ -81,7 +83,7 @@ def _validated_fields(path, raw, tier, cells_override):
                 + (grid_warnings(horn, frequencies, sweep.dims, (sweep.cells_per_wavelength,),
                                  "sweep.cells_per_wavelength") if sweep else [])]
     return dict(path=path, name=path.stem, title=title, horn=horn, frequencies=frequencies,
-                fdtd=fdtd, checks=checks, check_model=check_model, sweep=sweep, tiers=tiers,
+                fdtd=fdtd, checks=checks, check_model=check_model, sweep=sweep, tiers=tiers, feed=feed,
                 sha256=_variant_sha256(raw, tier, cells_override),
                 warnings=tuple(dict.fromkeys(warnings)), raw=raw, tier=tier,
                 cells_override=tuple(cells_override) if cells_override is not None else None)

@@ -49,6 +49,8 @@ class Case:
         The tier applied by :meth:`for_tier`, None for the case as written.
     cells_override : tuple or None
         The ladder set by :meth:`with_cells`, None when the case's own ladder is used.
+    feed : FeedSpec
+        The ``[feed]`` table (``case.feed_table``): reflector half-angle or f/D, beam levels.
     """
 
     path: Path
@@ -66,6 +68,7 @@ class Case:
     raw: dict
     tier: str = None
     cells_override: tuple = None
+    feed: object = None
 
     @classmethod
     def from_definition(cls, path, raw, *, tier=None, cells_override=None):

@@ -17,12 +17,13 @@ from ...sim.progress import ProgressReporter
 from ..numerics.convergence import grid_convergence
 from ..numerics.figures import directivity_key
 from ..output.json_document import jsonable
+from .feed_figures import FEED_LADDER_FIGURES
 from .messages import say
 
 #: FDTD figures whose ladder gets a convergence estimate
 LADDER_FIGURES = ("directivity_dbi", "directivity_2d_db", "gain_dbi", "realized_gain_dbi", "gain_2d_db",
                   "realized_gain_2d_db", "hpbw_h_deg",
-                  "hpbw_e_deg", "first_null_h_deg", "first_null_e_deg", "sll_h_db", "sll_e_db", "s11_db")
+                  "hpbw_e_deg", "first_null_h_deg", "first_null_e_deg", "sll_h_db", "sll_e_db", "s11_db") + FEED_LADDER_FIGURES
 
 #: staircased PEC walls converge at about first order (observed in development runs of this
 #: project, DEVELOPERS.md "Modelling notes"); used where the ladder cannot give an observed

@@ -23,6 +23,7 @@ from ..numerics.verdict import comparison_block, judge
 from ..output.folders import publish_folder
 from ..output.json_document import jsonable
 from .ladder import FORMAL_ORDER, fdtd_figures, ladder_convergence, run_fdtd_ladder, solver_block, solver_warnings
+from .feed_figures import add_feed_figures, feed_block
 from .grid_plan import combine_uncertainty, fitted_ladder, geometry_residual
 from .messages import is_writer, say
 from .predict import predict_case
@@ -291,9 +292,15 @@ def verify_case(case, out_dir=None, *, force=False, ladder=None, progress=None, 
             lambda rungs: run_fdtd_ladder(case, rungs, force=force, progress=progress), say)
         say(f"hornproof: {stop_reason}")
         ladder = [fit.cells_per_wavelength for fit in fits]
+    # feed figures (phase centres, 45° cut, beamwidths, efficiencies) into every model and rung
+    # before the ladder's convergence, so the FDTD values get their uncertainty like the rest
+    add_feed_figures(case, summary["models"], sim_results, summary.get("aperture_equivalent", "huygens"))
     summary["models"]["fdtd"], convergence = fdtd_model_block(case, sim_results, ladder,
                                                               geometry_residual(case, fits))
     summary["comparison"] = comparison(case, summary["models"], models, sim_results, ladder, convergence)
+    feed = feed_block(case, summary, summary.get("aperture_equivalent", "huygens"))
+    if feed is not None:
+        summary["feed"] = feed
     summary["solver"] = solver_block(case, sim_results, ladder, time.monotonic() - started)
     summary["solver"]["nominal_cells_per_wavelength"] = [fit.nominal_cells_per_wavelength for fit in fits]
     summary["solver"]["grid_fit"] = [fit.to_dict() for fit in fits]

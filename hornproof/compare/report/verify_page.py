@@ -13,6 +13,7 @@ from ..numerics.figures import directivity_key
 from ..numerics.verdict import COMPARED_FIGURES
 from . import plots
 from .verify_plots import confident_flags
+from .feed_section import feed_context
 from .format import CHECK_NAMES, MISSING_VALUE, number, quantity_rows, unit_decimals
 
 #: verdict words shown to people (DISAGREES in capitals so it cannot be missed)
@@ -223,6 +224,7 @@ def verify_context(result):
                                  if key not in SOLVER_KEYS_IN_OWN_TABLES}),
         "grid_fit": grid_fit_table(result),
         "refinement": refinement_text(result),
+        "feed": feed_context(result),
     }
 
 
