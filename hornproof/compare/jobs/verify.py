@@ -20,6 +20,7 @@ from ..numerics.figures import CHECK_METRICS, METRICS, directivity_key
 from ..numerics.metrics import interpolate_cut, pattern_error
 from ..numerics.power_balance import POWER_BALANCE_FIGURES, with_power_balance
 from ..numerics.verdict import comparison_block, judge
+from ..output.csv_tables import write_csv_tables
 from ..output.folders import publish_folder
 from ..output.json_document import jsonable
 from .ladder import FORMAL_ORDER, fdtd_figures, ladder_convergence, run_fdtd_ladder, solver_block, solver_warnings
@@ -294,7 +295,7 @@ def verify_case(case, out_dir=None, *, force=False, ladder=None, progress=None, 
         ladder = [fit.cells_per_wavelength for fit in fits]
     # feed figures (phase centres, 45° cut, beamwidths, efficiencies) into every model and rung
     # before the ladder's convergence, so the FDTD values get their uncertainty like the rest
-    add_feed_figures(case, summary["models"], sim_results, summary.get("aperture_equivalent", "huygens"))
+    feed_fields = add_feed_figures(case, summary["models"], sim_results, summary.get("aperture_equivalent", "huygens"))
     summary["models"]["fdtd"], convergence = fdtd_model_block(case, sim_results, ladder,
                                                               geometry_residual(case, fits))
     summary["comparison"] = comparison(case, summary["models"], models, sim_results, ladder, convergence)
@@ -313,7 +314,7 @@ def verify_case(case, out_dir=None, *, force=False, ladder=None, progress=None, 
     try:
         image = draw_model_image(case, max(ladder), Path(out_dir))
         if is_writer():
-            publish(out_dir, case, summary, models, sim_results, ladder, convergence, image)
+            publish(out_dir, case, summary, models, sim_results, ladder, convergence, image, feed_fields)
     finally:
         if image is not None:
             Path(image).unlink(missing_ok=True)  # moved into the folder when published
@@ -321,7 +322,7 @@ def verify_case(case, out_dir=None, *, force=False, ladder=None, progress=None, 
     return summary
 
 
-def publish(out_dir, case, summary, models, sim_results, ladder, convergence, image=None):
+def publish(out_dir, case, summary, models, sim_results, ladder, convergence, image=None, feed_fields=None):
     """Write every output into a staging folder, then swap it into place (``publish_folder``)."""
     # lazy: the report builder loads its templates and matplotlib (slow) only when a folder is written
     from ..report.html import build_report
@@ -329,6 +330,7 @@ def publish(out_dir, case, summary, models, sim_results, ladder, convergence, im
 
     def write(staging):
         write_result_files(staging, case, summary, sim_results, ladder)
+        write_csv_tables(staging, summary, sim_results[int(np.argmax(ladder))], models, feed_fields)
         write_verify_plots(staging, case, summary, models, sim_results, ladder, convergence)
         move_model_image(image, staging)
         build_report(staging)
