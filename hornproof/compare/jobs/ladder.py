@@ -11,7 +11,7 @@ import time
 import numpy as np
 
 from ...sim import run as fdtd_run
-from ...sim.estimate import available_memory_bytes, estimate_for_layout
+from ...sim.estimate import available_memory_bytes, estimate_for_layout, far_field_frequency_cost
 from ...sim.layout import plan_layout
 from ...sim.progress import ProgressReporter
 from ..numerics.convergence import grid_convergence
@@ -46,8 +46,11 @@ def resource_line(case, cells_per_wavelength):
     estimate = estimate_for_layout(layout, len(case.frequencies), use_symmetry=case.fdtd.use_symmetry)
     free = available_memory_bytes()
     free_text = "" if free is None else f" of {free / 2**30:.1f} GiB available"
+    step, fitting = far_field_frequency_cost(layout, len(case.frequencies), case.fdtd.use_symmetry, free)
+    fit_text = "" if fitting is None else f", up to {fitting:,} would fit"
     return (f"estimate: {estimate.cells:,} grid cells stored, peak memory about "
-            f"{estimate.peak_memory_bytes / 2**20:,.0f} MiB{free_text}")
+            f"{estimate.peak_memory_bytes / 2**20:,.0f} MiB{free_text}; each further far-field (gain) "
+            f"frequency about {step / 2**20:.1f} MiB{fit_text}")
 
 
 def progress_reporter(case, cells_per_wavelength):
