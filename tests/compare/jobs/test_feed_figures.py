@@ -115,3 +115,26 @@ def test_add_feed_figures_and_block_on_the_shipped_case(tmp_path):
     assert np.allclose(np.array(throat) + np.array(behind), 70.0)
     cross = np.array(summary["models"]["exact_phase"]["cross_polar_45_db"], dtype=float)
     assert np.all((cross < -15) & (cross > -60))
+
+
+def test_feed_checks_are_judged_like_every_other_figure(tmp_path):
+    # the [checks] keys of the feed figures reach verify's comparison: a difference inside the
+    # tolerance with a confident, smaller uncertainty agrees; beyond it even at the favourable
+    # end of the uncertainty it disagrees (the verdict rules of numerics.verdict; README)
+    from hornproof.compare.numerics.figures import CHECK_METRICS
+    from hornproof.compare.numerics.verdict import comparison_block
+
+    shipped = Path(__file__).parents[3] / "cases" / "pyramidal.toml"
+    body = shipped.read_text().replace("[checks]\n", "[checks]\nphase_centre_mm = 5.0\nefficiency_pct = 3.0\n", 1)
+    path = tmp_path / "case.toml"
+    path.write_text(body)
+    case = load_case(path)
+    assert case.checks["phase_centre_mm"] == 5.0 and case.checks["efficiency_pct"] == 3.0
+    assert CHECK_METRICS["phase_centre_mm"] == ("phase_centre_h_mm", "phase_centre_e_mm")
+    models = {"closed_form": {"phase_centre_h_mm": [30.0, 30.0]}, "exact_phase": {"phase_centre_h_mm": [29.0, 29.0]},
+              "fdtd": {"phase_centre_h_mm": [28.0, 40.0]}}
+    block = comparison_block([9.5e9, 10.5e9], models, {"phase_centre_h_mm": 5.0},
+                             {"phase_centre_h_mm": [1.0, 1.0]})
+    rows = block["metrics"][0]["per_frequency"]
+    assert block["metrics"][0]["unit"] == "mm"
+    assert [r["verdict"] for r in rows] == ["agrees", "disagrees"]
