@@ -236,7 +236,7 @@ def feed_block(case, summary, equivalent="huygens"):
                                   f"{CROSS_POLAR_WINDOW_DB:g} dB, relative to the co-polar peak",
             "aperture_equivalent": equivalent,
             "aperture_cross_polar_equivalent": CROSS_POLAR_EQUIVALENT,
-            "aperture_cross_polar_note": "the Huygens aperture equivalent has no Ludwig-3 cross-polar field; "
+            "aperture_cross_polar_note": "The Huygens aperture equivalent has no Ludwig-3 cross-polar field; "
                                          "the aperture models' 45° cross-polar level is the E-field equivalent's",
             "efficiencies": "focus-fed paraboloid, geometric optics, integrated over the (θ, φ) pattern "
                             "(one quadrant, both principal planes symmetric), feed at its best axial position",

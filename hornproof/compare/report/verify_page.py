@@ -188,6 +188,11 @@ def figure_captions(result):
     captions["s11"] = ("Input reflection |S11| (dB) at the feed guide, FDTD model, with the grid ladder's "
                        "uncertainty as bars where the ladder gave one (S11 converges worst of all figures).")
     captions["model"] = "The modelled metal on the finest grid, as the FDTD solver sees it."
+    for plane, letter in (("h", "H"), ("e", "E")):
+        captions[f"phase_centre_{plane}"] = (
+            f"Phase centre of the {letter}-plane over the band, mm behind the aperture plane (towards the "
+            "throat): least-squares fit of the co-polar far-field phase over the main lobe; FDTD with its "
+            "ladder uncertainty (hollow markers and dashed bars: not confident).")
     convergence = (result.get("comparison") or {}).get("convergence") or {}
     estimates = convergence.get("estimates") or []
     if f_ghz and len(estimates) == len(f_ghz):
