@@ -9,7 +9,7 @@ import numpy as np
 from ..analytic.pattern_metrics import cut_metrics, plane_features
 from ..errors import RunError
 from ..units import db10, db20
-from .feed import reflection_at_throat, vswr
+from .feed import axis_reflection, reflection_at_throat, vswr
 from .gain import PEC_RADIATION_EFFICIENCY, gain, power_balance_error, realized_gain
 from .layout import FAR_FIELD_DISTANCE
 from .pattern import cut_directions, directivity, polarisation_split, radiation_intensity, sphere_directions, sphere_power
@@ -142,7 +142,8 @@ def post_process(sim, layout, settings, frequencies, meep_frequencies, monitors)
 
     ``monitors`` is a dict: ``mode`` and ``guide_flux`` (``sim.feed``), ``far_field`` and
     ``box_flux`` (``sim.surface.add_far_field_monitors``); optionally ``dense_mode``, a tuple
-    (mode monitor, Hz, Meep frequencies) for S11 over the dense band (``feed.dense_band``).
+    (axis monitor over the dense band followed by the band frequencies, dense Hz, dense Meep
+    frequencies) for S11 over the dense band (``feed.dense_band``, ``feed.axis_reflection``).
     """
     nf = meep_frequencies.size
     powers = feed_powers(sim, layout, meep_frequencies, monitors["mode"], monitors["guide_flux"],
@@ -173,9 +174,12 @@ def post_process(sim, layout, settings, frequencies, meep_frequencies, monitors)
     result.extra.update(plane_features(theta, h_cut, e_cut))  # main-lobe edge flags, sidelobe angles
     if "dense_mode" in monitors:
         monitor, dense_hz, dense_meep = monitors["dense_mode"]
-        found = reflection_at_throat(sim, layout, monitor, dense_meep)
-        result.dense_band = {"frequencies_hz": np.asarray(dense_hz, dtype=float), "s11": found["s11"],
-                             "fit_residual": found["fit_residual"]}
+        found = axis_reflection(sim, layout, monitor, np.concatenate([dense_meep, meep_frequencies]))
+        n = len(dense_meep)
+        result.dense_band = {"frequencies_hz": np.asarray(dense_hz, dtype=float), "s11": found["s11"][:n],
+                             "fit_residual": found["fit_residual"][:n],
+                             # the axis read-out against the full-plane projection at the band frequencies
+                             "band_check_abs": np.abs(found["s11"][n:] - powers["s11"])}
     if layout.dims == 3:
         result.feed_pattern = feed_pattern(far_field, layout, meep_frequencies, theta, p_box)
     if settings.full_pattern_step_deg and layout.dims == 3:

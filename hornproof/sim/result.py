@@ -15,7 +15,8 @@ class SimResult(ModelResult):
     [nf, nθ, nφ]. ``feed_pattern`` is None (2D) or the complex co/cross-polar far fields of
     ``sim.postprocess.feed_pattern`` (cuts at φ = 0°, 90°, 45° and a quadrant of the sphere).
     ``dense_band`` is None (one-frequency band) or {``frequencies_hz``, ``s11`` (complex),
-    ``fit_residual``} at ``sim.feed.DENSE_BAND_POINTS`` frequencies of the same run.
+    ``fit_residual``} at ``sim.feed.DENSE_BAND_POINTS`` frequencies of the same run, read on
+    the guide axis, and ``band_check_abs`` [nf]: |S11 axis − S11 plane| at the band frequencies.
     """
 
     run: dict = field(default_factory=dict)

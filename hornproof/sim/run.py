@@ -30,7 +30,7 @@ import numpy as np
 
 from ..errors import RunError
 from .estimate import check_fits, estimate_for_layout
-from .feed import add_guide_flux, add_mode_monitor, dense_band, feed_source, mode_profile, source_band
+from .feed import add_axis_mode_monitor, add_guide_flux, add_mode_monitor, dense_band, feed_source, mode_profile, source_band
 from .layout import boundary_layers, plan_layout
 from .postprocess import post_process
 from .surface import add_far_field_monitors, closed_surface, farfield_method
@@ -87,7 +87,10 @@ def _build_simulation(layout, settings, meep_frequencies, dense=None):
                 "guide_flux": add_guide_flux(sim, layout, meep_frequencies)}
     if dense is not None:
         dense_meep = layout.meep_frequency(dense)
-        monitors["dense_mode"] = (add_mode_monitor(sim, layout, dense_meep), dense, dense_meep)
+        # the dense band on the guide axis (a line); the band frequencies too, to check it against
+        # the full-plane projection of the band's own S11
+        both = np.concatenate([dense_meep, meep_frequencies])
+        monitors["dense_mode"] = (add_axis_mode_monitor(sim, layout, both), dense, dense_meep)
     monitors["far_field"], monitors["box_flux"] = add_far_field_monitors(
         sim, closed_surface(layout), meep_frequencies, farfield_method(settings))
     return sim, mirrors, width, monitors

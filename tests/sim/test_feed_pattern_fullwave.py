@@ -61,3 +61,35 @@ def test_displaced_dipole_phase_centre_and_45_degree_cut():
     # cross/co = tan²(θ/2) in magnitude (Ludwig 3 on the dipole field), 0.01 absolute
     ratio = np.abs(cross[front]) / np.abs(co[front])
     assert ratio == pytest.approx(np.tan(th / 2) ** 2, abs=0.01)
+
+
+@pytest.mark.fullwave
+def test_dense_band_and_feed_field_of_a_small_horn():
+    # the dense S11 band (guide axis line, 101 points) against the full-plane TE10 projection of
+    # the band frequencies: the same wave read two ways (internal consistency, |ΔS11| < 0.005);
+    # and the horn's phase centre between its aperture and apex (geometric optics of a wave
+    # from the apex; E. I. Muehldorf 1970, trend from memory)
+    from hornproof.analytic.geometry import HornGeometry
+    from hornproof.analytic.phase_centre import phase_centres
+    from hornproof.sim.run import simulate
+    from hornproof.sim.settings import FdtdSettings
+    from hornproof.units import SPEED_OF_LIGHT
+
+    horn = HornGeometry("pyramidal", 22.86e-3, 10.16e-3, 45e-3, 35e-3, 40e-3, 1e-3)  # invented test horn
+    f = np.array([9.5e9, 10.5e9])
+    result = simulate(horn, f, FdtdSettings(pattern_step_deg=2.0), 12)
+    dense = result.dense_band
+    assert len(dense["frequencies_hz"]) == 101
+    assert dense["frequencies_hz"][0] == f[0] and dense["frequencies_hz"][-1] == f[-1]
+    assert np.all(dense["band_check_abs"] < 0.005)
+    feed = result.feed_pattern
+    k = 2 * np.pi * f / SPEED_OF_LIGHT
+    for plane, apex in (("h", horn.apex_h), ("e", horn.apex_e)):
+        z = feed["phase_reference_z_m"] + phase_centres(feed["theta_deg"], feed["cuts"][plane][0], k)["displacement_m"]
+        behind = horn.flare_length - z
+        assert np.all((behind > -0.1 * horn.flare_length) & (behind < apex))  # 10 % of L: grid slack
+    # |co|² + |cross|² on the H-plane cut is the run's own H-plane directivity (same far field)
+    co, cross = feed["cuts"]["h"]
+    total_db = 10 * np.log10(np.abs(co) ** 2 + np.abs(cross) ** 2)
+    d_h = 10 * np.log10(10 ** (result.h_plane_dbi / 10) + 10 ** (result.extra["h_plane_cross_dbi"] / 10))
+    assert total_db == pytest.approx(d_h, abs=1e-6)
