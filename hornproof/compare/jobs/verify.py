@@ -305,6 +305,11 @@ def verify_case(case, out_dir=None, *, force=False, ladder=None, progress=None, 
     summary["solver"] = solver_block(case, sim_results, ladder, time.monotonic() - started)
     summary["solver"]["nominal_cells_per_wavelength"] = [fit.nominal_cells_per_wavelength for fit in fits]
     summary["solver"]["grid_fit"] = [fit.to_dict() for fit in fits]
+    dense = getattr(sim_results[int(np.argmax(ladder))], "dense_band", None)
+    if dense is not None:
+        summary["solver"]["dense_band"] = {
+            "points": len(dense["frequencies_hz"]), "read_on": "guide axis line, finest grid",
+            "max_band_check_abs": float(np.max(dense["band_check_abs"]))}
     if goal is not None:
         summary["solver"]["refinement"] = {"target_uncertainty_db": goal.target_db,
                                            "budget_seconds": goal.budget_seconds, "stopped": stop_reason}

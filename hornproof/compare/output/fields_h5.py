@@ -28,6 +28,7 @@ Optional groups added by the feed figures::
                                      centre (e^{+jωt}), principal planes
     /dense_band/frequencies          Hz, [n]     dense S11 band (sim.feed.DENSE_BAND_POINTS)
     /dense_band/s11_real, s11_imag   1, [n]
+    /dense_band/band_check_abs       1, [nf] the axis read-out against the full TE10 projection
 
 File attributes: ``schema``, ``solver`` ("meep"), ``solver_version``, ``cells_per_wavelength``,
 ``resolution`` (cells per metre), ``wall_thickness_modelled_m``, ``case_sha256``,
@@ -215,6 +216,10 @@ def _write_dense_band(handle, dense):
     s11 = np.asarray(dense["s11"], dtype=complex)
     _dataset(group, "s11_real", s11.real, "1", "real part of S11 (dense band)", (scale,))
     _dataset(group, "s11_imag", s11.imag, "1", "imaginary part of S11 (dense band)", (scale,))
+    if dense.get("band_check_abs") is not None:
+        _dataset(group, "band_check_abs", _array(dense["band_check_abs"], "dense_band.band_check_abs"), "1",
+                 "|S11 on the guide axis - S11 of the full TE10 projection| at the band frequencies",
+                 (handle["frequencies"],))
 
 
 def write_fields_h5(path, result, *, case_sha256, case_name, flare_length_m=None):
