@@ -10,8 +10,9 @@ Targets (issue "what a feed engineer reads off a horn"):
 Method: one ``verify`` of ``cases/pyramidal.toml`` (its default ladder; ``--quick``: a two-rung
 14/17 ladder) with timing wrappers around the feed steps, so the feed share is measured inside
 the same run; then the coarsest rung run with, without and again without the dense monitor (A/B, the
-dense S11 read-out timed inside). Everything is written into a temporary folder. The machine
-may be shared: wall times are noisy, the inside-the-run share is the steadier figure.
+dense S11 read-out timed inside). Times are CPU time of this process (``time.process_time``;
+Meep runs in it, one rank), steadier than wall time on a shared machine. Everything is
+written into a temporary folder.
 Usage: ``.venv/bin/python bench/bench_feed.py [--quick]``.
 """
 
@@ -33,12 +34,12 @@ def timed(module, name, bucket, key, condition=None):
     original = getattr(module, name)
 
     def wrapper(*args, **kwargs):
-        started = time.perf_counter()
+        started = time.process_time()
         try:
             return original(*args, **kwargs)
         finally:
             if condition is None or condition(args):
-                bucket[key] = bucket.get(key, 0.0) + time.perf_counter() - started
+                bucket[key] = bucket.get(key, 0.0) + time.process_time() - started
     setattr(module, name, wrapper)
     return original
 
@@ -58,9 +59,9 @@ def feed_share(quick):
     if quick:
         case = case.with_cells([14, 17])
     with tempfile.TemporaryDirectory(prefix="bench-feed-") as folder:
-        started = time.perf_counter()
+        started = time.process_time()
         verify.verify_case(case, Path(folder) / "out")
-        total = time.perf_counter() - started
+        total = time.process_time() - started
     return total, bucket
 
 
@@ -75,9 +76,9 @@ def dense_ab(cells):
     times = {}
     for label, band in (("without", lambda f: None), ("with", original), ("without again", lambda f: None)):
         run.dense_band = band
-        started = time.perf_counter()
+        started = time.process_time()
         result = run.simulate(case.horn, case.frequencies, case.fdtd, cells)
-        times[label] = time.perf_counter() - started
+        times[label] = time.process_time() - started
         if label == "with":
             assert result.dense_band is not None and len(result.dense_band["frequencies_hz"]) >= 101
     run.dense_band = original
@@ -102,8 +103,8 @@ def main():
     dense_post = bucket.get("dense S11 read-out", 0.0)
     print("dense band A/B on one rung: " + ", ".join(f"{k} {v:.2f} s" for k, v in times.items()))
     ratio = (times["with"] - base) / base
-    print(f"dense: overhead {100 * ratio:+.2f} % of the run (target <= {100 * TARGETS['dense']:.0f} %; wall-time "
-          f"noise on a shared machine is of the same order); dense read-out inside verify "
+    print(f"dense: overhead {100 * ratio:+.2f} % of the run (target <= {100 * TARGETS['dense']:.0f} %; CPU-time "
+          f"noise of repeated runs is a few %); dense read-out inside verify "
           f"{100 * dense_post / total:.2f} % of it")
 
 
