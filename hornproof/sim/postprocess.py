@@ -14,6 +14,7 @@ from .gain import PEC_RADIATION_EFFICIENCY, gain, power_balance_error, realized_
 from .layout import FAR_FIELD_DISTANCE
 from .pattern import cut_directions, directivity, polarisation_split, radiation_intensity, sphere_directions, sphere_power
 from .result import SimResult
+from .range_gain import range_gain_dbi
 from .surface import far_field_evaluator
 
 
@@ -182,6 +183,11 @@ def post_process(sim, layout, settings, frequencies, meep_frequencies, monitors)
                              "band_check_abs": np.abs(found["s11"][n:] - powers["s11"])}
     if layout.dims == 3:
         result.feed_pattern = feed_pattern(far_field, layout, meep_frequencies, theta, p_box)
+    distances = (settings.extra or {}).get("range_distances_m")
+    if distances and layout.dims == 3:  # [range] of the case: the gain a probe at R would infer
+        result.extra["range_gain_dbi"] = range_gain_dbi(sim, monitors["far_field"], layout, meep_frequencies,
+                                                        p_box, distances)
+        result.run["range_distances_m"] = [float(d) for d in distances]  # extra holds per-frequency arrays
     if settings.full_pattern_step_deg and layout.dims == 3:
         result.full_pattern = full_pattern(far_field, settings.full_pattern_step_deg, p_box)
         result.extra["sphere_power_ratio"] = result.full_pattern["sphere_power_ratio"]

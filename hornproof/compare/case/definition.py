@@ -7,19 +7,22 @@ is part of the hashed definition.
 
 from ...hashing import content_sha256
 from ...sim.settings import FdtdSettings
+from ..numerics.metrics import band_centre_index
 from .band_table import band_frequencies, check_band_against_guide, guide_warnings, read_band
 from .checks_table import read_checks
 from .feed_table import read_feed
 from .fdtd_table import grid_warnings, read_fdtd
-from .horn_table import read_horn
+from .horn_table import read_horn, read_wall
+from .range_table import read_range
 from .sweep_table import read_sweep
 from .tiers_table import read_tiers
+from .tolerance_table import read_tolerance
 from .values import CaseProblem, check_keys, describe_value, input_error, read_table
 
 #: The case-file format this package reads.
 FORMAT_VERSION = 1
 
-TOP_KEYS = ("format", "title", "horn", "band", "fdtd", "checks", "sweep", "tiers", "feed")
+TOP_KEYS = ("format", "title", "horn", "band", "fdtd", "checks", "sweep", "tiers", "range", "tolerance", "feed")
 
 
 def case_fields(path, raw, *, tier=None, cells_override=None):
@@ -52,15 +55,19 @@ def _validated_fields(path, raw, tier, cells_override):
     check_keys(raw, TOP_KEYS, "")
     title = _read_title(raw, path.stem)
     horn = read_horn(read_table(raw, "horn", required=True))
+    wall = read_wall(raw["horn"])
     band = read_band(read_table(raw, "band", required=True), "band")
     check_band_against_guide(band, horn)
     fdtd_fields, quick_2d = read_fdtd(read_table(raw, "fdtd", required=False), horn,
                                       float(max(band_frequencies(band))))
     checks, check_model = read_checks(read_table(raw, "checks", required=False))
     feed = read_feed(read_table(raw, "feed", required=False))
-    sweep = read_sweep(read_table(raw, "sweep", required=False), horn, fdtd_fields)
+    sweep = read_sweep(read_table(raw, "sweep", required=False), horn, fdtd_fields,
+                       _centre_frequency(band_frequencies(band)))
     tiers = read_tiers(read_table(raw, "tiers", required=False), horn, band, fdtd_fields,
                        quick_2d)
+    range_distances = read_range(read_table(raw, "range", required=False))
+    tolerance = read_tolerance(read_table(raw, "tolerance", required=False), horn)
 
     if tier is not None:
         overrides = tiers[tier]
@@ -74,19 +81,27 @@ def _validated_fields(path, raw, tier, cells_override):
 
     frequencies = band_frequencies(band)
     frequencies.setflags(write=False)
+    if range_distances:  # the 3D FDTD post-processing evaluates the range gain (sim/range_gain.py)
+        fdtd_fields["extra"] = dict(fdtd_fields.get("extra") or {}, range_distances_m=tuple(range_distances))
     fdtd = FdtdSettings(**fdtd_fields)
 
     warnings = [f"{path}: {key}: {reason}" for key, reason in
                 guide_warnings(band, frequencies, horn)
                 + grid_warnings(horn, frequencies, fdtd.dims, fdtd.cells_per_wavelength,
                                 _cells_key(tier, cells_override))
-                + (grid_warnings(horn, frequencies, sweep.dims, (sweep.cells_per_wavelength,),
-                                 "sweep.cells_per_wavelength") if sweep else [])]
+                + (grid_warnings(horn, frequencies, sweep.dims, sweep.cells_per_wavelength,
+                                 "sweep.cells_per_wavelength") if sweep and sweep.cells_per_wavelength else [])]
     return dict(path=path, name=path.stem, title=title, horn=horn, frequencies=frequencies,
                 fdtd=fdtd, checks=checks, check_model=check_model, sweep=sweep, tiers=tiers, feed=feed,
                 sha256=_variant_sha256(raw, tier, cells_override),
                 warnings=tuple(dict.fromkeys(warnings)), raw=raw, tier=tier,
-                cells_override=tuple(cells_override) if cells_override is not None else None)
+                cells_override=tuple(cells_override) if cells_override is not None else None,
+                wall=wall, range_distances=range_distances, tolerance=tolerance)
+
+
+def _centre_frequency(frequencies):
+    """The band frequency a sweep compares at (``numerics.metrics.band_centre_index``), Hz."""
+    return float(frequencies[band_centre_index(frequencies)])
 
 
 def _variant_sha256(raw, tier, cells_override):

@@ -7,15 +7,24 @@ guide: the key may be left out, or must repeat the guide size.
 
 import math
 import types
+from dataclasses import dataclass
 
+from ...analytic.materials import MATERIAL_NAMES, wall_material
 from ...analytic.geometry import HORN_TYPES, HornGeometry, flare_half_angle, validate_geometry
 from ...analytic.waveguide import EIA_WAVEGUIDES, waveguide_size
 from ...units import MM
 from .sweepspec import MAX_FLARE_HALF_ANGLE_DEG
-from .values import CaseProblem, check_keys, describe_value, read_choice, read_positive, suggestion
+from .values import (CaseProblem, check_keys, describe_value, read_choice, read_number, read_positive,
+                     suggestion)
 
 HORN_KEYS = ("type", "waveguide", "waveguide_a_mm", "waveguide_b_mm", "aperture_a_mm",
-             "aperture_b_mm", "flare_length_mm", "wall_mm")
+             "aperture_b_mm", "flare_length_mm", "wall_mm", "wall_material", "wall_roughness_um",
+             "feed_guide_length_mm")
+#: keys of the wall metal (read by :func:`read_wall`); without ``wall_material`` the walls are
+#: perfect conductors and gain equals directivity
+WALL_KEYS = ("wall_material", "wall_roughness_um", "feed_guide_length_mm")
+#: roughness above this (µm) is not a machined or plated waveguide surface
+MAX_ROUGHNESS_UM = 100.0
 DEFAULT_WALL_MM = 1.0
 #: Relative tolerance for "must equal the guide size" (sectoral horns).
 _SAME_SIZE_RELATIVE_TOLERANCE = 1e-6
@@ -43,6 +52,50 @@ def read_horn(table):
         field, reason = problems[0]
         raise CaseProblem(geometry_key(field, guide_key), reason)
     return HornGeometry(**fields)
+
+
+@dataclass(frozen=True)
+class WallSpec:
+    """The walls' metal (``analytic.materials.WallMaterial``) and the feed guide length, m,
+    whose loss counts with the flare's."""
+
+    material: object
+    feed_guide_length: float
+
+
+def read_wall(table):
+    """The case's ``WallSpec``, or None when ``wall_material`` is absent (perfect conductor).
+
+    ``wall_material`` is a metal name (``MATERIAL_NAMES``) or a conductivity in S/m;
+    ``wall_roughness_um`` (RMS, default 0) and ``feed_guide_length_mm`` (default 0) need it.
+    """
+    if "wall_material" not in table:
+        for key in ("wall_roughness_um", "feed_guide_length_mm"):
+            if key in table:
+                raise CaseProblem(f"horn.{key}", "needs horn.wall_material (a metal name or a "
+                                                 "conductivity in S/m)")
+        return None
+    roughness = _non_negative(table, "wall_roughness_um", MAX_ROUGHNESS_UM, "an RMS roughness in µm") * 1e-6
+    feed = _non_negative(table, "feed_guide_length_mm", 1e5, "a length in mm") * MM
+    value = table["wall_material"]
+    try:
+        material = wall_material(value, roughness)
+    except ValueError as error:
+        reason = str(error).split(": ", 1)[-1]
+        if isinstance(value, str):
+            reason += suggestion(value.strip().lower(), MATERIAL_NAMES)
+        raise CaseProblem("horn.wall_material", reason) from None
+    return WallSpec(material=material, feed_guide_length=feed)
+
+
+def _non_negative(table, key, high, unit):
+    """``table[key]`` in [0, high] (0 when absent)."""
+    if key not in table:
+        return 0.0
+    value = read_number(table[key], f"horn.{key}")
+    if not 0 <= value <= high:
+        raise CaseProblem(f"horn.{key}", f"must be in [0, {high:g}] ({unit}), got {table[key]!r}")
+    return value
 
 
 def guide_height_key(guide_key):

@@ -10,6 +10,7 @@ from ...errors import InputError
 from ...sim.settings import FdtdSettings
 from .definition import case_fields
 from .fdtd_table import read_cells_ladder
+from .range_table import range_distances
 from .values import CaseProblem, input_error, one_line, suggestion
 
 
@@ -51,6 +52,12 @@ class Case:
         The ladder set by :meth:`with_cells`, None when the case's own ladder is used.
     feed : FeedSpec
         The ``[feed]`` table (``case.feed_table``): reflector half-angle or f/D, beam levels.
+    wall : horn_table.WallSpec or None
+        The walls' metal and feed guide length (None: perfect conductors, gain = directivity).
+    range_distances : tuple of float
+        On-axis distances (m) at which to predict a range measurement (``[range]``); empty: none.
+    tolerance : tolerance_table.ToleranceSpec or None
+        The tolerance study asked for (``[tolerance]``), None: none.
     """
 
     path: Path
@@ -69,6 +76,9 @@ class Case:
     tier: str = None
     cells_override: tuple = None
     feed: object = None
+    wall: object = None
+    range_distances: tuple = ()
+    tolerance: object = None
 
     @classmethod
     def from_definition(cls, path, raw, *, tier=None, cells_override=None):
@@ -90,6 +100,15 @@ class Case:
                                       f"this case has {', '.join(sorted(self.tiers))}"))
         return Case.from_definition(self.path, self.raw, tier=name,
                                     cells_override=self.cells_override)
+
+    def with_range(self, distances_m, *, source="--range-m"):
+        """This case with its ``[range]`` distances (m) replaced (its own ``sha256``)."""
+        try:
+            distances = range_distances(list(distances_m), source)
+        except CaseProblem as problem:
+            raise input_error(self.path, problem) from None
+        raw = dict(self.raw, range={"distances_m": list(distances)})
+        return Case.from_definition(self.path, raw, tier=self.tier, cells_override=self.cells_override)
 
     def with_cells(self, cells_per_wavelength, *, source="--cells-per-wavelength"):
         """This case with its convergence ladder replaced (its own ``sha256``).

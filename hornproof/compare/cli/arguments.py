@@ -26,3 +26,14 @@ def cells_per_wavelength_list(text):
         raise argparse.ArgumentTypeError(f"cells per wavelength must be numbers from {MIN_CELLS_PER_WAVELENGTH:g} "
                                          f"to {MAX_CELLS_PER_WAVELENGTH:g}")
     return values
+
+
+def distance_list(text):
+    """``--range-m R[,R2,...]``: positive distances in metres (the case loader checks limits)."""
+    try:
+        values = [float(v) for v in text.split(",") if v.strip()]
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"expected distances in m separated by commas, got {text!r}")
+    if not values or any(not (v > 0 and v < float("inf")) for v in values):
+        raise argparse.ArgumentTypeError("distances must be positive finite numbers of metres")
+    return values

@@ -16,6 +16,7 @@ from pathlib import Path
 import numpy as np
 
 from ...analytic import design
+from ...analytic.model_limits import model_limit_warnings
 from ...analytic.predict import predict
 from ...analytic.waveguide import EIA_WAVEGUIDES, waveguide_size
 from ...atomic import write_text_atomic
@@ -107,6 +108,7 @@ def design_summary(result):
         "phase_error_e_wl": result.phase_error_e_wl,
         "phase_reference": result.phase_reference,
         "both_models_dbi": {name: float(np.asarray(m.directivity_dbi)[0]) for name, m in models.items()},
+        "warnings": model_limit_warnings(horn, result.frequency),
         "safety": SAFETY_NOTE,
     }
     return jsonable(summary)
@@ -156,8 +158,9 @@ def format_design(summary):
              f"  directivity      {summary['directivity_dbi']:.2f} dBi, aperture efficiency "
              f"{summary['aperture_efficiency'] * 100:.1f} %",
              f"  both models      closed form {summary['both_models_dbi']['closed_form']:.2f} dBi, "
-             f"exact phase {summary['both_models_dbi']['exact_phase']:.2f} dBi",
-             safety_lines()]
+             f"exact phase {summary['both_models_dbi']['exact_phase']:.2f} dBi"]
+    lines += [f"  warning: {warning}" for warning in summary.get("warnings", [])]
+    lines.append(safety_lines())
     return "\n".join(lines)
 
 

@@ -37,6 +37,7 @@ COMMANDS = {
     "regress": "hornproof.compare.cli.regress",
     "design": "hornproof.compare.cli.design",
     "report": "hornproof.compare.cli.report",
+    "exposure": "hornproof.compare.cli.exposure",
 }
 
 #: one line of help per subcommand (``hornproof --help``)
@@ -48,6 +49,7 @@ HELP = {
     "regress": "nightly suite against stored baselines (JUnit XML)",
     "design": "optimum horn sizing (analytic)",
     "report": "rebuild report.html from a stored result folder",
+    "exposure": "on-axis distances beyond which RF exposure reference levels hold (an estimate)",
 }
 
 

@@ -14,8 +14,9 @@ from ..report.feed_section import feed_lines
 from ..report.format import MISSING_VALUE
 from ..output.folders import check_output_folder
 from ..output.terminal import emit_result, safety_lines
-from .arguments import add_fdtd_run_arguments
+from .arguments import add_fdtd_run_arguments, distance_list
 from .predict import horn_3d_lines
+from .range_shop_lines import range_shop_lines
 
 
 #: exit status of ``verify``: every check agrees (or none was asked)
@@ -43,6 +44,9 @@ def setup_arguments(parser):
                         help="add finer rungs until every checked dB figure's uncertainty is at most DB "
                              "and no checked figure is unresolved, at most 3 rungs (default: the case's "
                              "fdtd.target_uncertainty_db, else the ladder as given)")
+    parser.add_argument("--range-m", type=distance_list, metavar="R[,R2,...]",
+                        help="also predict the gain a probe on the axis at these distances (m) would "
+                             "measure (replaces the case's [range] distances)")
     parser.add_argument("--budget", type=float, metavar="SECONDS",
                         help="with refinement: stop before a rung that would take the whole ladder past "
                              "SECONDS (estimated from the rungs run so far)")
@@ -98,6 +102,7 @@ def format_verdicts(summary):
                      f"{'':>7} {row['limit']:6.2f}  {row.get('ladder') or '':<18} {row['verdict']}")
     lines += horn_3d_lines(summary)  # a 2D case: the 3D horn's aperture models in dBi
     lines += feed_lines(summary)  # phase centres, 45° cross-polar peak, beamwidths, efficiencies
+    lines += range_shop_lines(summary)  # wall loss, finite-range gain, tolerances (if asked)
     lines.append(f"  overall: {comparison['overall']}")
     reasons = comparison.get("unresolved_reasons") or {}
     if comparison.get("unresolved_checks"):
@@ -129,6 +134,8 @@ def run(args):
     case = load_case(args.case)
     if args.cells_per_wavelength:
         case = case.with_cells(args.cells_per_wavelength)
+    if args.range_m:
+        case = case.with_range(args.range_m)
     for warning in case.warnings:
         say(f"hornproof: warning: {warning}")
     out_dir = check_output_folder(Path(args.out) if args.out else default_out_dir(case),

@@ -190,6 +190,20 @@ def add_feed_figures(case, summary_models, sim_results, equivalent="huygens"):
     return {"aperture": fields, "aperture_cross": cross_fields}
 
 
+def aperture_cut_fields(case, equivalent="huygens"):
+    """The aperture models' feed fields on the cuts only (no sphere), for the CSV exports:
+    {"aperture": {model: field}, "aperture_cross": {model: field of the E-field equivalent}};
+    {} for a 2D case."""
+    if int(case.fdtd.dims) != 3:
+        return {}
+    out = {"aperture": {}, "aperture_cross": {}}
+    for name in ("closed_form", "exact_phase"):
+        out["aperture"][name] = aperture_feed_field(case.horn, case.frequencies, name, equivalent, sphere=False)
+        out["aperture_cross"][name] = out["aperture"][name] if equivalent == CROSS_POLAR_EQUIVALENT else \
+            aperture_feed_field(case.horn, case.frequencies, name, CROSS_POLAR_EQUIVALENT, sphere=False)
+    return out
+
+
 def feed_block(case, summary, equivalent="huygens"):
     """The ``feed`` block of result.json: what was computed and how, and a table per figure.
 

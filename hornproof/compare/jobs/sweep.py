@@ -1,24 +1,23 @@
-"""``hornproof sweep CASE``: model error against one horn parameter, with breakdown thresholds.
+"""``hornproof sweep CASE``: model error against one horn parameter, with breakdown intervals.
 
-For every value of the case's ``[sweep]`` the closed-form and exact-phase models are evaluated
-and (unless ``--analytic-only``) the FDTD model is run — the 2D model for sectoral horns by
-default — on three grids (``GRID_RATIOS`` × the sweep's cells per wavelength) whose grid
-convergence index, combined by root-sum-square with the finest grid's power-balance term
-(:mod:`..numerics.power_balance`), is the uncertainty of each point (the index alone:
-``uncertainty_ladder``); ``--cells-per-wavelength`` sets the grids
-(two grids: GCI with safety factor 3 at an assumed first order; one grid: no uncertainty). The errors are split as in ``verify``:
+For every value of the case's ``[sweep]`` both analytic models are evaluated and (unless
+``--analytic-only``) the FDTD model is run as ``verify`` would run the point's own case
+(:mod:`.sweep_point`): the real horn in 3D by default, the 2D principal-plane model only when
+the sweep asks for it (as a labelled first look, or beside the 3D one to show where they part).
+The errors are split as in ``verify``:
 
 * phase-approximation error = closed form − exact phase (no numerical uncertainty: both are
-  converged quadratures);
-* aperture-model error = exact phase − FDTD (uncertainty = the FDTD one).
+  converged quadratures; evaluated on a dense grid of the swept parameter);
+* aperture-model error = exact phase − FDTD, and total error = closed form − FDTD (the FDTD
+  point's uncertainty: confident where its ladder allows, a disagreement bound otherwise).
 
-The breakdown threshold of each is the first swept value where |error| − uncertainty exceeds
-the tolerance (``verdict.breakdown_threshold``). Finished points are cached by a content hash
+Each error's breakdown is an interval (:func:`..numerics.breakdown.breakdown_interval`), each
+model's optimum a value with the range of swept values that could hold it
+(:func:`..numerics.breakdown.optimum_interval`). Finished points are cached by a content hash
 of everything that defines them (``points/<hash>.json``, written atomically), so a killed sweep
 rerun recomputes nothing it already finished.
 """
 
-import dataclasses
 import json
 import time
 from dataclasses import dataclass
@@ -29,32 +28,28 @@ import numpy as np
 from ...analytic.predict import predict
 from ...atomic import write_text_atomic
 from ...errors import InputError
-from ...hashing import content_sha256
-from ...sim import run as fdtd_run
-from ...sim.grid_fit import fit_ladder, flared_plane
 from ...sim.solver import meep_version
 from ...version import build_version
-from ..numerics.convergence import grid_convergence
+from ..case.sweepspec import SWEEP_PARAMETERS
+from ..numerics.breakdown import analytic_breakdown, breakdown_interval, optimum_interval
 from ..numerics.figures import directivity_key
 from ..numerics.metrics import band_centre_index
-from ..numerics.verdict import breakdown_threshold
-from ..case.sweepspec import PARAMETER_LABELS
 from ..output.json_document import jsonable
 from ..output.summary import SAFETY_NOTE
 from ..output.sweep_json import SWEEP_SCHEMA, write_sweep_json
-from ..numerics.power_balance import power_balance_uncertainty_db, root_sum_square
-from .ladder import fdtd_figures
 from .messages import is_writer, say
+from .sweep_point import point_case, point_figures, point_key, point_ladder
 
+#: samples of the swept parameter on which the analytic models are evaluated (optima and the
+#: phase-approximation breakdown)
+DENSE_SAMPLES = 161
 
-#: default grids of a sweep point, relative to the case's sweep.cells_per_wavelength: three
-#: grids give a GCI with an observed order (Celik et al. 2008); two grids force the assumed
-#: order and safety factor 3, which in a development run here hid every breakdown
-GRID_RATIOS = (1.0, 1.4, 2.0)
+#: the three model errors of a sweep
+ERROR_KINDS = ("phase_approximation", "aperture_model", "total")
 
-
-#: hex digits of a sweep point's content hash (its cache file name)
-POINT_KEY_LENGTH = 20
+#: how a sweep names its model, by dimension
+MODEL_LABELS = {3: "3D model of the real horn",
+                2: "2D principal-plane model (a first look: it cannot see the other plane's opening)"}
 
 
 @dataclass
@@ -62,7 +57,9 @@ class SweepPoint:
     """One swept value at the band centre: both analytic models and (unless analytic only) FDTD.
 
     Directivities in dB (dBi in 3D, 2D directivity in 2D); peak phase errors S (H-plane) and
-    T (E-plane) in wavelengths; NaN where a value is not available.
+    T (E-plane) in wavelengths; NaN where a value is not available. ``fdtd_uncertainty`` is the
+    uncertainty shown (whatever its kind), ``fdtd_confident`` the one that may support "holds",
+    ``fdtd_bound`` the one that may support "past tolerance" (:mod:`..numerics.confidence`).
     """
 
     value: float
@@ -72,68 +69,26 @@ class SweepPoint:
     phase_error_e: float
     fdtd: float = float("nan")
     fdtd_uncertainty: float = float("nan")
+    fdtd_confident: float = float("nan")
+    fdtd_bound: float = float("nan")
+    ladder: str | None = None
+    reason: str | None = None
+    details: dict | None = None  # the point's ladder, run times, wall, verdict (FDTD only)
     seconds: float | None = None  # FDTD run time over the point's grids (None: no FDTD)
     cached: bool | None = None  # FDTD figures read from the point cache (None: no FDTD)
 
 
-def point_key(horn, frequencies, settings, ladder):
-    """Content hash of one sweep point: the horn, band, FDTD settings, grids and versions."""
-    definition = {
-        "horn": dataclasses.asdict(horn),
-        "frequencies_hz": [float(f) for f in frequencies],
-        "settings": jsonable(dataclasses.asdict(settings)),
-        "cells_per_wavelength": [float(c) for c in ladder],
-        "hornproof": build_version(),
-        "meep": meep_version(),
-    }
-    return content_sha256(definition, POINT_KEY_LENGTH)
-
-
-def run_point(horn, frequencies, settings, ladder, force):
-    """FDTD figures of one sweep point on every grid of ``ladder`` (each rung fitted to this
-    point's horn, :func:`hornproof.sim.grid_fit.fit_ladder`), JSON-ready."""
-    fits = fit_ladder(horn, float(np.max(frequencies)), int(settings.dims), list(ladder),
-                      plane=flared_plane(horn, settings.dims))
-    ladder = [fit.cells_per_wavelength for fit in fits]
-    results = [fdtd_run.simulate(horn, frequencies, settings, float(c), force=force) for c in ladder]
-    figures = [fdtd_figures(r) for r in results]
-    key = directivity_key(settings.dims)
-    values = np.array([[np.nan if v is None else v for v in f[key]] for f in figures])
-    finest = int(np.argmax(ladder))
-    point = {"directivity": values[finest].tolist(), "directivity_per_grid": values.tolist(),
-             "hpbw_h_deg": figures[finest].get("hpbw_h_deg"), "hpbw_e_deg": figures[finest].get("hpbw_e_deg"),
-             "power_balance_error": figures[finest].get("power_balance_error"),
-             "seconds": [r.run.get("seconds_total") for r in results],
-             "cells_per_wavelength": ladder,
-             "worst_size_residual_percent": [100.0 * fit.worst_relative_residual for fit in fits],
-             "wall_thickness_modelled_mm": results[finest].run.get("wall_thickness_modelled_m", np.nan) * 1e3}
-    if len(ladder) > 1:
-        found = grid_convergence(values, cells_per_wavelength=ladder, formal_order=1.0)
-        point["uncertainty_ladder"] = [e.uncertainty for e in found]
-        # with the finest grid's power-balance term, as in verify (numerics.power_balance)
-        point["uncertainty"] = root_sum_square(point["uncertainty_ladder"],
-                                               power_balance_uncertainty_db(point["power_balance_error"])).tolist()
-        point["convergence_status"] = [e.status for e in found]
-    else:
-        point["uncertainty"] = [np.nan] * values.shape[1]
-        point["convergence_status"] = ["single"] * values.shape[1]
-    return jsonable(point)
-
-
-def sweep_grids(case, dims=None, ladder=None):
-    """The model dimension, the grids (cells per wavelength) and the FDTD settings of a sweep."""
+def sweep_dims(case, dims=None):
+    """The model dimensions a sweep runs, the main one first: (3,), (2,) or (3, 2)."""
     spec = case.sweep
     if spec is None:
         raise InputError(f"{case.path}: sweep: the case has no [sweep] table")
-    dims = int(dims or spec.dims)
-    if dims == 2 and case.horn.kind == "pyramidal":
-        raise InputError(f"{case.path}: sweep.dims: a pyramidal horn has no 2D model; use dims = 3")
-    if ladder is None:
-        first = float(spec.cells_per_wavelength)
-        ladder = [round(first * ratio) for ratio in GRID_RATIOS]
-    ladder = [float(c) for c in ladder]
-    settings = dataclasses.replace(case.fdtd, dims=dims, cells_per_wavelength=tuple(ladder))
-    return dims, ladder, settings
+    if dims is not None:
+        dims = int(dims)
+        if dims == 2 and case.horn.kind == "pyramidal":
+            raise InputError(f"{case.path}: --dims: a pyramidal horn has no 2D model; use 3")
+        return (dims,)
+    return (3, 2) if spec.principal_plane else (int(spec.dims),)
 
 
 def analytic_point(value, horn, frequencies, centre, dims):
@@ -157,121 +112,177 @@ def read_cached_point(path):
         return None
 
 
-def add_fdtd(point, horn, run, centre, label, log):
-    """Fill the FDTD directivity, uncertainty and run time of ``point`` at the band centre, from
-    the cache of finished points or by running the grids (then cached)."""
-    path = run["points_dir"] / f"{point_key(horn, run['frequencies'], run['settings'], run['ladder'])}.json"
+def _number(value):
+    return float("nan") if value is None else float(value)
+
+
+def add_fdtd(point, pcase, run, centre, label, log):
+    """Fill the FDTD figures of ``point`` at the band centre, from the cache of finished points
+    or by evaluating the point's case (then cached)."""
+    path = run["points_dir"] / f"{point_key(pcase)}.json"
     figures = read_cached_point(path)
     point.cached = figures is not None
     if figures is None:
         log(f"{label} (S = {point.phase_error_h:.3f}, T = {point.phase_error_e:.3f} wavelengths)")
-        figures = run_point(horn, run["frequencies"], run["settings"], run["ladder"], run["force"])
+        figures = point_figures(pcase, force=run["force"], log=log)
         figures["parameter"] = run["parameter"]
         figures["value"] = point.value
         if is_writer():
             write_text_atomic(path, json.dumps(figures, indent=1) + "\n")
     else:
         log(f"{label} (cached)")
-    point.fdtd = np.nan if figures["directivity"][centre] is None else figures["directivity"][centre]
-    uncertainty = figures["uncertainty"][centre]
-    point.fdtd_uncertainty = np.nan if uncertainty is None else uncertainty
+    point.fdtd = _number(figures["directivity"][centre])
+    point.fdtd_uncertainty = _number(figures["uncertainty"][centre])
+    point.fdtd_confident = _number(figures["confident_uncertainty"][centre])
+    point.fdtd_bound = _number(figures["disagreement_bound"][centre])
+    point.ladder, point.reason = figures["ladder"][centre], figures["uncertainty_reason"][centre]
     point.seconds = sum(s or 0 for s in figures.get("seconds", []))
+    point.details = {key: figures.get(key) for key in ("cells_per_wavelength", "seconds", "verdict",
+                                                        "worst_size_residual_percent", "wall_thickness_modelled_mm",
+                                                        "wall_thickness_modelled_per_rung_mm")}
+
+
+def run_points(case, horns, dims, run, analytic_only, log):
+    """The :class:`SweepPoint` of every swept horn for one model dimension."""
+    freqs, centre, spec = run["frequencies"], run["centre"], case.sweep
+    points = []
+    for index, (value, horn) in enumerate(horns, start=1):
+        point = analytic_point(value, horn, freqs, centre, dims)
+        if not analytic_only:
+            ladder = run["ladder"] or point_ladder(spec, horn, freqs, dims)
+            pcase = point_case(case, horn, value, dims, ladder)
+            label = f"hornproof: sweep point {index}/{len(horns)} ({dims}D): {spec.parameter} = {value:g}"
+            add_fdtd(point, pcase, run, centre, label, log)
+        points.append(point)
+    return points
 
 
 def run_sweep(case, out_dir, *, dims=None, ladder=None, analytic_only=False, force=False, log=None):
-    """Run (or resume) the sweep of ``case``; returns the ``hornproof.sweep/1`` document."""
+    """Run (or resume) the sweep of ``case``; returns the ``hornproof.sweep/2`` document.
+
+    ``dims`` overrides the sweep's model dimension (one model only); ``ladder`` (cells per
+    wavelength) overrides every point's ladder."""
     log = log or say
-    dims, ladder, settings = sweep_grids(case, dims, ladder)
+    all_dims = sweep_dims(case, dims)
     spec = case.sweep
     try:
         horns = spec.horns(case.horn)
     except ValueError as error:
         raise InputError(f"{case.path}: sweep.values: {error}")
     freqs = np.asarray(case.frequencies, dtype=float)
-    centre = band_centre_index(freqs)
     out_dir = Path(out_dir)
-    run = {"points_dir": out_dir / "points", "frequencies": freqs, "settings": settings, "ladder": ladder,
-           "force": force, "parameter": spec.parameter}
+    run = {"points_dir": out_dir / "points", "frequencies": freqs, "centre": band_centre_index(freqs),
+           "ladder": [float(c) for c in ladder] if ladder else None, "force": force,
+           "parameter": spec.parameter}
     if is_writer():
         run["points_dir"].mkdir(parents=True, exist_ok=True)
     started = time.monotonic()
-    points = []
-    for index, (value, horn) in enumerate(horns, start=1):
-        point = analytic_point(value, horn, freqs, centre, dims)
-        if not analytic_only:
-            label = f"hornproof: sweep point {index}/{len(horns)}: {spec.parameter} = {value:g}"
-            add_fdtd(point, horn, run, centre, label, log)
-        points.append(point)
-    document = sweep_document(case, points, horns, dims, ladder, analytic_only, time.monotonic() - started)
+    models = {d: run_points(case, horns, d, run, analytic_only, log) for d in all_dims}
+    document = sweep_document(case, models, analytic_only, time.monotonic() - started)
     if is_writer():
         write_sweep_folder(out_dir, document)
     return document
 
 
-def error_split(points, tolerance, analytic_only):
-    """Errors, their uncertainties and breakdown thresholds along the sweep."""
-    values = np.asarray([p.value for p in points])
-    closed_form = np.asarray([p.closed_form for p in points])
-    exact_phase = np.asarray([p.exact_phase for p in points])
-    fdtd = np.asarray([p.fdtd for p in points])
-    fdtd_uncertainty = [p.fdtd_uncertainty for p in points]
-    phase_error, aperture_error, total_error = closed_form - exact_phase, exact_phase - fdtd, closed_form - fdtd
+def _column(points, name):
+    return np.asarray([getattr(p, name) for p in points], dtype=float)
+
+
+def model_block(case, points, dims, analytic_only):
+    """Models, errors, uncertainties, breakdown intervals and optima of one model dimension."""
+    spec = case.sweep
+    frequency = float(spec.frequency) if np.isfinite(spec.frequency) else float(
+        case.frequencies[band_centre_index(case.frequencies)])
+    tolerance = float(case.checks.get("directivity_db", 0.5))
+    values = _column(points, "value")
+    closed_form, exact_phase, fdtd = (_column(points, n) for n in ("closed_form", "exact_phase", "fdtd"))
+    dense = dense_curves(case, frequency, dims)
     zero = np.zeros_like(values)
-    breakdown = {"phase_approximation": breakdown_threshold(values, phase_error, zero, tolerance)}
+    errors = {"phase_approximation": closed_form - exact_phase}
+    uncertainties = {"phase_approximation": zero}
+    breakdown = {"phase_approximation": analytic_breakdown(dense["values"], dense["closed_form"] - dense["exact_phase"],
+                                                           tolerance)}
+    optimum = {name: analytic_optimum(dense, name) for name in ("closed_form", "exact_phase")}
+    block = {"dims": dims, "label": MODEL_LABELS[dims],
+             "figure": {"name": directivity_key(dims),
+                        "label": "2D directivity (per-unit-length model)" if dims == 2 else "Directivity",
+                        "unit": "dB" if dims == 2 else "dBi"},
+             "models": {"closed_form": closed_form, "exact_phase": exact_phase, "fdtd": None},
+             "phase_error_h_wl": _column(points, "phase_error_h"), "phase_error_e_wl": _column(points, "phase_error_e"),
+             "dense": {"values": dense["values"], "closed_form": dense["closed_form"],
+                       "exact_phase": dense["exact_phase"]}}
     if not analytic_only:
-        usable = np.asarray(fdtd_uncertainty)
-        usable = np.where(np.isfinite(usable), usable, 0.0)
-        breakdown["aperture_model"] = breakdown_threshold(values, aperture_error, usable, tolerance)
-        breakdown["total"] = breakdown_threshold(values, total_error, usable, tolerance)
-    errors = {"phase_approximation": phase_error, "aperture_model": None if analytic_only else aperture_error,
-              "total": None if analytic_only else total_error}
-    uncertainties = {"phase_approximation": zero, "aperture_model": None if analytic_only else fdtd_uncertainty,
-                     "total": None if analytic_only else fdtd_uncertainty}
-    return errors, uncertainties, breakdown
+        confident, bound = _column(points, "fdtd_confident"), _column(points, "fdtd_bound")
+        errors.update(aperture_model=exact_phase - fdtd, total=closed_form - fdtd)
+        shown = _column(points, "fdtd_uncertainty")
+        for kind in ("aperture_model", "total"):
+            uncertainties[kind] = shown
+            breakdown[kind] = breakdown_interval(values, errors[kind], confident, bound, tolerance)
+        optimum["fdtd"] = fdtd_optimum(spec, case.horn, values, fdtd, confident, bound, frequency)
+        block["models"]["fdtd"] = fdtd
+        block.update(fdtd_uncertainty=shown, fdtd_confident_uncertainty=confident, fdtd_disagreement_bound=bound,
+                     fdtd_ladder=[p.ladder for p in points], fdtd_uncertainty_reason=[p.reason for p in points],
+                     points=[dict(p.details or {}, value=p.value, cached=p.cached) for p in points])
+    for kind in ERROR_KINDS:
+        errors.setdefault(kind, None)
+        uncertainties.setdefault(kind, None)
+    block.update(errors=errors, uncertainties=uncertainties, breakdown=breakdown, optimum=optimum)
+    return block
 
 
-def sweep_solver_block(points, ladder, dims, seconds):
-    """The ``solver`` block of sweep.json (FDTD runs only)."""
-    return {"name": "meep", "meep": meep_version(), "dims": dims, "cells_per_wavelength": ladder,
-            "uncertainty": ("two-grid GCI, safety factor 3, assumed first order" if len(ladder) == 2 else
-                            "grid convergence index over the grids" if len(ladder) > 2 else
-                            "single grid: no numerical uncertainty estimated (treated as 0)"),
-            "points_computed": sum(1 for p in points if p.cached is False),
-            "points_reused": sum(1 for p in points if p.cached),
-            "seconds": seconds, "seconds_per_point": [p.seconds for p in points if p.seconds is not None]}
+def parting(case, main, principal):
+    """Where the 3D and 2D aperture-model errors part along the sweep, and by how much."""
+    tolerance = float(case.checks.get("directivity_db", 0.5))
+    values = np.asarray(case.sweep.values, dtype=float)
+    difference = np.asarray(main["errors"]["aperture_model"]) - np.asarray(principal["errors"]["aperture_model"])
+    confident = np.hypot(main["fdtd_confident_uncertainty"], principal["fdtd_confident_uncertainty"])
+    bound = np.hypot(main["fdtd_disagreement_bound"], principal["fdtd_disagreement_bound"])
+    finite = np.isfinite(difference)
+    largest = int(np.nanargmax(np.abs(difference))) if np.any(finite) else None
+    return {"difference": difference, "confident_uncertainty": confident, "disagreement_bound": bound,
+            "interval": breakdown_interval(values, difference, confident, bound, tolerance),
+            "largest": None if largest is None else {"value": float(values[largest]),
+                                                     "difference": float(difference[largest]),
+                                                     "uncertainty": float(confident[largest])}}
 
 
-def sweep_document(case, points, horns, dims, ladder, analytic_only, seconds):
-    """The ``hornproof.sweep/1`` document of finished ``points``."""
+def sweep_document(case, models, analytic_only, seconds):
+    """The ``hornproof.sweep/2`` document; ``models`` maps each model dimension run (the main
+    one first) to its list of :class:`SweepPoint`."""
     spec = case.sweep
     freqs = np.asarray(case.frequencies, dtype=float)
     centre = band_centre_index(freqs)
-    tolerance = float(case.checks.get("directivity_db", 0.5))
-    errors, uncertainties, breakdown = error_split(points, tolerance, analytic_only)
-    fdtd = [p.fdtd for p in points]
-    label, unit = PARAMETER_LABELS[spec.parameter]
+    (main_dims, *others) = list(models)
+    blocks = {d: model_block(case, points, d, analytic_only) for d, points in models.items()}
+    main = blocks[main_dims]
+    parameter = SWEEP_PARAMETERS[spec.parameter]
     document = {
         "schema": SWEEP_SCHEMA, "case": case.name, "title": case.title, "case_sha256": case.sha256,
-        "parameter": {"name": spec.parameter, "label": label, "unit": unit, "values": [p.value for p in points],
-                      "held_fixed": "flare half-angles" if spec.parameter == "flare_length_mm" else "flare length"},
+        "parameter": {"name": spec.parameter, "label": parameter.label, "unit": parameter.unit,
+                      "values": [p.value for p in models[main_dims]], "held_fixed": parameter.held_fixed},
         "frequency_ghz": float(freqs[centre] / 1e9),
-        "figure": {"name": directivity_key(dims), "label": "2D directivity" if dims == 2 else "Directivity",
-                   "unit": "dB"},
-        "tolerance": tolerance,
-        "models": {"closed_form": [p.closed_form for p in points], "exact_phase": [p.exact_phase for p in points],
-                   "fdtd": None if analytic_only else fdtd},
-        "fdtd_uncertainty": None if analytic_only else [p.fdtd_uncertainty for p in points],
-        "errors": errors,
-        "uncertainties": uncertainties,
-        "breakdown": breakdown,
-        "phase_error_h_wl": [p.phase_error_h for p in points], "phase_error_e_wl": [p.phase_error_e for p in points],
-        "optimum": analytic_optimum(case, spec, horns, freqs[centre], dims, fdtd if not analytic_only else None),
+        "tolerance": float(case.checks.get("directivity_db", 0.5)),
+        **main,
+        "principal_plane": blocks[others[0]] if others else None,
+        "parting": (parting(case, main, blocks[others[0]]) if others and not analytic_only else None),
         "solver": ({"name": "none (analytic only)"} if analytic_only else
-                   sweep_solver_block(points, ladder, dims, seconds)),
+                   sweep_solver_block(models, seconds)),
         "warnings": list(case.warnings), "safety": SAFETY_NOTE,
         "hornproof_version": build_version(),
     }
     return jsonable(document)
+
+
+def sweep_solver_block(models, seconds):
+    """The ``solver`` block of sweep.json (FDTD runs only)."""
+    points = [p for group in models.values() for p in group]
+    return {"name": "meep", "meep": meep_version(), "dims": list(models),
+            "ladder": "each point's own ladder, fitted to its horn (see points)",
+            "uncertainty": "as verify: grid convergence index, power balance and geometry residual, "
+                           "root-sum-square; confident only from a monotone ladder of three or more rungs",
+            "points_computed": sum(1 for p in points if p.cached is False),
+            "points_reused": sum(1 for p in points if p.cached),
+            "seconds": seconds, "seconds_per_point": [p.seconds for p in points if p.seconds is not None]}
 
 
 def write_sweep_folder(out_dir, document):
@@ -285,45 +296,79 @@ def write_sweep_folder(out_dir, document):
     build_sweep_report(out_dir)
 
 
-def analytic_optimum(case, spec, horns, frequency, dims, fdtd_values=None, samples=161):
-    """Where each model's directivity peaks along the sweep, with the peak phase errors there.
-
-    The analytic models are evaluated on a dense grid of the swept parameter between the first
-    and last values; FDTD on its samples (with a parabola through the best three).
-    """
-    lo, hi = min(spec.values), max(spec.values)
-    dense = np.linspace(lo, hi, samples)
-    out = {}
-    curves = {"closed_form": [], "exact_phase": []}
-    dense_horns = []
-    for value in dense:
+def dense_curves(case, frequency, dims, samples=DENSE_SAMPLES):
+    """Both analytic models on a dense grid of the swept parameter (first to last value), with
+    the peak phase errors S, T; values that make no horn are left out."""
+    spec = case.sweep
+    out = {"values": [], "closed_form": [], "exact_phase": [], "phase_error_h_wl": [], "phase_error_e_wl": []}
+    for value in np.linspace(min(spec.values), max(spec.values), samples):
         try:
             horn = spec.horn_at(case.horn, float(value))
         except ValueError:
             continue
-        dense_horns.append((float(value), horn))
         models = predict(horn, [frequency], dims=dims)
-        for name in curves:
-            curves[name].append(float(np.asarray(models[name].directivity_dbi)[0]))
-    for name, curve in curves.items():
-        if not curve:
-            continue
-        i = int(np.argmax(curve))
-        value, horn = dense_horns[i]
-        out[name] = {"value": value, "directivity": curve[i], "interior": 0 < i < len(curve) - 1,
-                     "phase_error_h_wl": float(horn.phase_error_h(frequency)),
-                     "phase_error_e_wl": float(horn.phase_error_e(frequency))}
-    if fdtd_values is not None and np.any(np.isfinite(fdtd_values)):
-        v = np.asarray(fdtd_values, dtype=float)
-        x = np.asarray([val for val, _ in horns], dtype=float)
-        i = int(np.nanargmax(v))
-        best = float(x[i])
-        if 0 < i < len(x) - 1 and np.all(np.isfinite(v[i - 1:i + 2])):
-            a, b, _ = np.polyfit(x[i - 1:i + 2], v[i - 1:i + 2], 2)
-            if a < 0:
-                best = float(np.clip(-b / (2 * a), x[i - 1], x[i + 1]))
-        horn = spec.horn_at(case.horn, best)
-        out["fdtd"] = {"value": best, "directivity": float(v[i]), "interior": 0 < i < len(x) - 1,
-                       "phase_error_h_wl": float(horn.phase_error_h(frequency)),
-                       "phase_error_e_wl": float(horn.phase_error_e(frequency))}
-    return out
+        out["values"].append(float(value))
+        for name in ("closed_form", "exact_phase"):
+            out[name].append(float(np.asarray(models[name].directivity_dbi)[0]))
+        out["phase_error_h_wl"].append(float(horn.phase_error_h(frequency)))
+        out["phase_error_e_wl"].append(float(horn.phase_error_e(frequency)))
+    return {key: np.asarray(values, dtype=float) for key, values in out.items()}
+
+
+def analytic_optimum(dense, name):
+    """Where an analytic model peaks on the dense grid: the sample, ± half a dense step."""
+    curve = dense[name]
+    if curve.size == 0:
+        return None
+    i = int(np.argmax(curve))
+    step = float(np.max(np.diff(dense["values"]))) if curve.size > 1 else 0.0
+    return {"value": float(dense["values"][i]), "figure": float(curve[i]), "uncertainty": 0.0,
+            "interior": 0 < i < curve.size - 1,
+            "range": [float(dense["values"][i]) - step / 2, float(dense["values"][i]) + step / 2],
+            "bounded": True,
+            "phase_error_h_wl": float(dense["phase_error_h_wl"][i]),
+            "phase_error_e_wl": float(dense["phase_error_e_wl"][i])}
+
+
+def fdtd_optimum(spec, base_horn, values, fdtd, confident, bound, frequency):
+    """Where the FDTD directivity peaks among the swept values, with the range that could hold
+    the peak given each point's uncertainty (:func:`..numerics.breakdown.optimum_interval`)."""
+    best = optimum_interval(values, fdtd, confident, bound)
+    if best is None:
+        return None
+    horn = spec.horn_at(base_horn, best["value"])
+    best.update(phase_error_h_wl=float(horn.phase_error_h(frequency)),
+                phase_error_e_wl=float(horn.phase_error_e(frequency)))
+    return best
+
+
+
+def _interval_figure(interval, first_value):
+    """(value, uncertainty) of a breakdown interval for regress: its midpoint and half-width;
+    "past tolerance from the start" is the first swept value (no width); a breakdown that holds
+    throughout or is unresolved has no value (None): a change of status is a regression."""
+    status = interval.get("status") if isinstance(interval, dict) else None
+    if status == "past tolerance from the start":
+        return float(first_value), 0.0
+    if status != "breaks":
+        return None, None
+    low = first_value if interval["earliest"] == "below range" else interval["earliest"]
+    high = interval["latest"]
+    return 0.5 * (low + high), 0.5 * (high - low)
+
+
+def regress_figures(document, frequency_index):
+    """The sweep's figures a nightly run compares with its baseline: each breakdown interval and
+    each model's optimum as a value ± half its width, named ``sweep_<what>_<unit>``."""
+    unit = document["parameter"]["unit"]
+    first = min(document["parameter"]["values"])
+    figures = {}
+    for kind, interval in (document.get("breakdown") or {}).items():
+        value, uncertainty = _interval_figure(interval, first)
+        figures[f"sweep_breakdown_{kind}_{unit}"] = {"value": value, "uncertainty": uncertainty}
+    for model, best in (document.get("optimum") or {}).items():
+        if best:
+            low, high = best.get("range") or (best["value"], best["value"])
+            figures[f"sweep_optimum_{model}_{unit}"] = {"value": best["value"], "uncertainty": 0.5 * (high - low)}
+    return {"frequency_index": int(frequency_index), "parameter": document["parameter"]["name"],
+            "model": document.get("label"), "figures": figures}

@@ -24,10 +24,11 @@ from ..output.csv_tables import write_csv_tables
 from ..output.folders import publish_folder
 from ..output.json_document import jsonable
 from .ladder import FORMAL_ORDER, fdtd_figures, ladder_convergence, run_fdtd_ladder, solver_block, solver_warnings
-from .feed_figures import add_feed_figures, feed_block
+from .feed_figures import add_feed_figures, aperture_cut_fields, feed_block
 from .grid_plan import combine_uncertainty, fitted_ladder, geometry_residual
 from .messages import is_writer, say
 from .predict import predict_case
+from .range_and_shop import add_range_and_shop
 from .refine import RefinementGoal, refine
 from .result_folder import draw_model_image, move_model_image, write_result_files
 from .sidelobe_match import add_feature_notes, matched_sidelobes
@@ -255,6 +256,57 @@ def comparison(case, summary_models, models, sim_results, ladder, convergence):
     return block
 
 
+def evaluate_case(case, *, force=False, ladder=None, progress=None, goal=None, log=say):
+    """Both analytic models, the FDTD ladder and the comparison of ``case``; writes nothing.
+
+    The computing half of :func:`verify_case` (which adds the result folder); a sweep point is
+    this evaluation of the point's horn, so the two give the same figures and uncertainties.
+
+    Returns
+    -------
+    (dict, dict, list, list, tuple, list)
+        The ``hornproof.result/1`` summary (JSON-ready), the analytic ``ModelResult``s, the
+        ``SimResult`` of every rung, the ladder (cells per wavelength, as fitted), the ladder's
+        convergence (uncertainty, estimates, values) and the grid fits.
+    """
+    started = time.monotonic()
+    fits = fitted_ladder(case, [float(c) for c in (ladder or case.fdtd.cells_per_wavelength)])
+    ladder = [fit.cells_per_wavelength for fit in fits]
+    summary, models = predict_case(case)
+    sim_results = run_fdtd_ladder(case, ladder, force=force, progress=progress, log=log)
+    goal = goal or case_goal(case)
+    stop_reason = None
+    if goal is not None:
+        fits, sim_results, stop_reason = refine(
+            case, summary["models"], fits, sim_results, goal,
+            lambda rungs: run_fdtd_ladder(case, rungs, force=force, progress=progress, log=log), log)
+        log(f"hornproof: {stop_reason}")
+        ladder = [fit.cells_per_wavelength for fit in fits]
+    # feed figures (phase centres, 45° cut, beamwidths, efficiencies) into every model and rung
+    # before the ladder's convergence, so the FDTD values get their uncertainty like the rest
+    add_feed_figures(case, summary["models"], sim_results, summary.get("aperture_equivalent", "huygens"))
+    summary["models"]["fdtd"], convergence = fdtd_model_block(case, sim_results, ladder,
+                                                              geometry_residual(case, fits))
+    add_range_and_shop(case, summary, sim_results, ladder)  # wall loss, finite range, tolerances: only if the case asks
+    summary["comparison"] = comparison(case, summary["models"], models, sim_results, ladder, convergence)
+    feed = feed_block(case, summary, summary.get("aperture_equivalent", "huygens"))
+    if feed is not None:
+        summary["feed"] = feed
+    summary["solver"] = solver_block(case, sim_results, ladder, time.monotonic() - started)
+    summary["solver"]["nominal_cells_per_wavelength"] = [fit.nominal_cells_per_wavelength for fit in fits]
+    summary["solver"]["grid_fit"] = [fit.to_dict() for fit in fits]
+    dense = getattr(sim_results[int(np.argmax(ladder))], "dense_band", None)
+    if dense is not None:
+        summary["solver"]["dense_band"] = {
+            "points": len(dense["frequencies_hz"]), "read_on": "guide axis line, finest grid",
+            "max_band_check_abs": float(np.max(dense["band_check_abs"]))}
+    if goal is not None:
+        summary["solver"]["refinement"] = {"target_uncertainty_db": goal.target_db,
+                                           "budget_seconds": goal.budget_seconds, "stopped": stop_reason}
+    summary["warnings"] = list(summary.get("warnings", [])) + solver_warnings(sim_results, ladder)
+    return jsonable(summary), models, sim_results, ladder, convergence, fits
+
+
 def verify_case(case, out_dir=None, *, force=False, ladder=None, progress=None, goal=None):
     """Run the main job on ``case`` and write its result folder.
 
@@ -280,45 +332,14 @@ def verify_case(case, out_dir=None, *, force=False, ladder=None, progress=None, 
         The ``hornproof.result/1`` summary (also written as ``result.json``).
     """
     started = time.monotonic()
-    fits = fitted_ladder(case, [float(c) for c in (ladder or case.fdtd.cells_per_wavelength)])
-    ladder = [fit.cells_per_wavelength for fit in fits]
     out_dir = Path(out_dir) if out_dir is not None else default_out_dir(case)
-    summary, models = predict_case(case)
-    sim_results = run_fdtd_ladder(case, ladder, force=force, progress=progress)
-    goal = goal or case_goal(case)
-    stop_reason = None
-    if goal is not None:
-        fits, sim_results, stop_reason = refine(
-            case, summary["models"], fits, sim_results, goal,
-            lambda rungs: run_fdtd_ladder(case, rungs, force=force, progress=progress), say)
-        say(f"hornproof: {stop_reason}")
-        ladder = [fit.cells_per_wavelength for fit in fits]
-    # feed figures (phase centres, 45° cut, beamwidths, efficiencies) into every model and rung
-    # before the ladder's convergence, so the FDTD values get their uncertainty like the rest
-    feed_fields = add_feed_figures(case, summary["models"], sim_results, summary.get("aperture_equivalent", "huygens"))
-    summary["models"]["fdtd"], convergence = fdtd_model_block(case, sim_results, ladder,
-                                                              geometry_residual(case, fits))
-    summary["comparison"] = comparison(case, summary["models"], models, sim_results, ladder, convergence)
-    feed = feed_block(case, summary, summary.get("aperture_equivalent", "huygens"))
-    if feed is not None:
-        summary["feed"] = feed
-    summary["solver"] = solver_block(case, sim_results, ladder, time.monotonic() - started)
-    summary["solver"]["nominal_cells_per_wavelength"] = [fit.nominal_cells_per_wavelength for fit in fits]
-    summary["solver"]["grid_fit"] = [fit.to_dict() for fit in fits]
-    dense = getattr(sim_results[int(np.argmax(ladder))], "dense_band", None)
-    if dense is not None:
-        summary["solver"]["dense_band"] = {
-            "points": len(dense["frequencies_hz"]), "read_on": "guide axis line, finest grid",
-            "max_band_check_abs": float(np.max(dense["band_check_abs"]))}
-    if goal is not None:
-        summary["solver"]["refinement"] = {"target_uncertainty_db": goal.target_db,
-                                           "budget_seconds": goal.budget_seconds, "stopped": stop_reason}
-    summary["warnings"] = list(summary.get("warnings", [])) + solver_warnings(sim_results, ladder)
-    summary = jsonable(summary)
+    summary, models, sim_results, ladder, convergence, _ = evaluate_case(
+        case, force=force, ladder=ladder, progress=progress, goal=goal)
     image = None
     try:
         image = draw_model_image(case, max(ladder), Path(out_dir))
         if is_writer():
+            feed_fields = aperture_cut_fields(case, summary.get("aperture_equivalent", "huygens"))
             publish(out_dir, case, summary, models, sim_results, ladder, convergence, image, feed_fields)
     finally:
         if image is not None:
@@ -331,12 +352,14 @@ def publish(out_dir, case, summary, models, sim_results, ladder, convergence, im
     """Write every output into a staging folder, then swap it into place (``publish_folder``)."""
     # lazy: the report builder loads its templates and matplotlib (slow) only when a folder is written
     from ..report.html import build_report
+    from ..report.range_shop_plots import write_tolerance_plot
     from ..report.verify_plots import write_verify_plots
 
     def write(staging):
         write_result_files(staging, case, summary, sim_results, ladder)
         write_csv_tables(staging, summary, sim_results[int(np.argmax(ladder))], models, feed_fields)
         write_verify_plots(staging, case, summary, models, sim_results, ladder, convergence)
+        write_tolerance_plot(staging, summary)
         move_model_image(image, staging)
         build_report(staging)
 

@@ -232,59 +232,6 @@ def error_split(closed_form, exact_phase, fdtd):
     }
 
 
-def breakdown_threshold(parameter_values, errors, uncertainties, tolerance):
-    """First parameter value where a model error exceeds tolerance beyond its uncertainty.
-
-    Parameters
-    ----------
-    parameter_values : array_like, shape [n]
-        Swept parameter (e.g. flare half-angle in degrees, or a length in m), distinct values,
-        any order (scanned from small to large).
-    errors : array_like, shape [n]
-        Model error at each value (figure units). NaN samples are skipped.
-    uncertainties : array_like or float, shape [n]
-        Numerical uncertainty of each error (≥ 0; NaN samples are skipped).
-    tolerance : float
-        Accepted |error| (≥ 0).
-
-    Returns
-    -------
-    float, None or str
-        The parameter value, linearly interpolated between the last sample where
-        |error| − uncertainty ≤ tolerance and the first where it exceeds it; ``None`` if it
-        never does; ``"below range"`` if already exceeded at the first usable sample.
-
-    Notes
-    -----
-    The interpolated quantity is the margin m = |error| − uncertainty − tolerance; the
-    threshold is the zero of m between the two samples (linear interpolation, common practice).
-    """
-    x = _float_array(parameter_values)
-    e = _float_array(errors)
-    u = np.broadcast_to(_float_array(uncertainties), e.shape)
-    if x.ndim != 1 or e.shape != x.shape:
-        raise ValueError(f"errors: shape {e.shape} must match parameter_values shape {x.shape}")
-    tolerance = float(tolerance)
-    if not np.isfinite(tolerance) or tolerance < 0:
-        raise ValueError(f"tolerance: must be finite and non-negative, got {tolerance}")
-    if np.any(u[np.isfinite(u)] < 0):
-        raise ValueError("uncertainties: must be non-negative")
-    if np.unique(x).size != x.size:
-        raise ValueError("parameter_values: values must be distinct")
-    keep = np.isfinite(x) & np.isfinite(e) & np.isfinite(u)
-    x, e, u = x[keep], e[keep], u[keep]
-    order = np.argsort(x)
-    x, margin = x[order], (np.abs(e) - u - tolerance)[order]
-    exceeded = np.nonzero(margin > 0)[0]
-    if exceeded.size == 0:
-        return None
-    i = int(exceeded[0])
-    if i == 0:
-        return "below range"
-    x0, x1, m0, m1 = x[i - 1], x[i], margin[i - 1], margin[i]
-    return float(x0 + (0.0 - m0) * (x1 - x0) / (m1 - m0))
-
-
 #: Metric name in the comparison block -> (figure key in result.json models, label, unit): a
 #: read of the one figure table (:data:`hornproof.compare.numerics.figures.METRICS`).
 COMPARED_FIGURES = {metric: (figure.key, figure.label, figure.unit) for metric, figure in METRICS.items()}
@@ -349,11 +296,15 @@ def comparison_block(frequencies, models, tolerances, fdtd_uncertainties=None, *
         if metric not in COMPARED_FIGURES:
             raise ValueError(f"tolerances: unknown metric {metric!r} (known: {sorted(COMPARED_FIGURES)})")
         key, label, unit = COMPARED_FIGURES[metric]
-        # Realized gain: only FDTD has it; the analytic models are lossless and matched, so
-        # their directivity is their realized gain.
-        analytic_key = "directivity_dbi" if key == "realized_gain_dbi" else key
-        closed_form = _column(models.get("closed_form"), analytic_key, nf)
-        exact_phase = _column(models.get("exact_phase"), analytic_key, nf)
+        # Realized gain: only FDTD has it; the analytic models are matched, so their gain is
+        # their realized gain: directivity less the wall loss when the case names a wall metal
+        # (``gain_dbi``, jobs/wall_loss_block.py), else directivity (lossless walls).
+        def analytic_key(name):
+            if key != "realized_gain_dbi":
+                return key
+            return "gain_dbi" if "gain_dbi" in (models.get(name) or {}) else "directivity_dbi"
+        closed_form = _column(models.get("closed_form"), analytic_key("closed_form"), nf)
+        exact_phase = _column(models.get("exact_phase"), analytic_key("exact_phase"), nf)
         fdtd = _column(models.get("fdtd"), key, nf)
         fdtd_uncertainty = np.broadcast_to(np.asarray(
             [np.nan if v is None else v for v in np.atleast_1d(fdtd_uncertainties.get(metric, np.nan)).tolist()],

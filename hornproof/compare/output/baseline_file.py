@@ -41,6 +41,7 @@ __all__ = [
     "SCHEMA",
     "FIGURES",
     "FIGURE_UNITS",
+    "figure_unit",
     "FigureRecord",
     "Baseline",
     "baseline_path",
@@ -65,6 +66,19 @@ FIGURE_UNITS = {
     "s11_db": "dB",
 }
 FIGURES = tuple(FIGURE_UNITS)
+
+#: a sweep's figures (``sweep_figures`` of a summary, :func:`hornproof.compare.jobs.sweep.regress_figures`)
+#: are named ``sweep_<what>_<unit>``, the unit being the swept parameter's
+SWEEP_FIGURE_PREFIX = "sweep_"
+
+
+def figure_unit(name):
+    """The unit of a baseline figure: from the table, or a sweep figure's name suffix."""
+    if name in FIGURE_UNITS:
+        return FIGURE_UNITS[name]
+    if name.startswith(SWEEP_FIGURE_PREFIX):
+        return name.rsplit("_", 1)[-1]
+    return ""
 
 # Older summaries name the directivity uncertainty after its check ("directivity_db").
 _UNCERTAINTY_ALIASES = {"directivity_dbi": ("directivity_db",), "directivity_2d_db": ("directivity_db",)}
@@ -103,7 +117,7 @@ class Baseline:
                 name: {"values": list(rec.values), "uncertainty": list(rec.uncertainty)}
                 for name, rec in self.figures.items()
             },
-            "units": {name: FIGURE_UNITS.get(name, "") for name in self.figures},
+            "units": {name: figure_unit(name) for name in self.figures},
             "solver": dict(self.solver),
             "settings": dict(self.settings),
             "hornproof_version": self.hornproof_version,
@@ -191,6 +205,7 @@ def figures_from_result(result):
         figures[name] = FigureRecord(values=values, uncertainty=u)
     if not figures:
         raise ValueError("models.fdtd: none of the summary figures " + ", ".join(FIGURES))
+    figures.update(_sweep_figures(result.get("sweep_figures"), n))
     return frequencies, figures
 
 
@@ -265,3 +280,27 @@ def read_baseline(path):
         hornproof_version=str(data.get("hornproof_version", "")),
         recorded_utc=str(data.get("recorded_utc", "")),
     )
+
+
+def _sweep_figures(block, n):
+    """The sweep's regress figures of a summary: each a value at one band frequency (the one the
+    sweep compares at), None at the others. ``block`` is ``{"frequency_index": i, "figures":
+    {name: {"value", "uncertainty"}}}`` or None."""
+    if block is None:
+        return {}
+    if not isinstance(block, dict) or not isinstance(block.get("figures"), dict):
+        raise ValueError("sweep_figures: expected a table with 'frequency_index' and 'figures'")
+    index = block.get("frequency_index")
+    if isinstance(index, bool) or not isinstance(index, int) or not 0 <= index < n:
+        raise ValueError(f"sweep_figures.frequency_index: expected an index below {n}")
+    out = {}
+    for name, entry in block["figures"].items():
+        if not str(name).startswith(SWEEP_FIGURE_PREFIX) or not isinstance(entry, dict):
+            raise ValueError(f"sweep_figures.figures.{name}: not a sweep figure")
+        values, uncertainty = [None] * n, [None] * n
+        values[index] = _number_or_none(entry.get("value"), f"sweep_figures.figures.{name}.value")
+        uncertainty[index] = _number_or_none(entry.get("uncertainty"), f"sweep_figures.figures.{name}.uncertainty")
+        if uncertainty[index] is not None and uncertainty[index] < 0:
+            raise ValueError(f"sweep_figures.figures.{name}.uncertainty: negative uncertainty")
+        out[name] = FigureRecord(values=values, uncertainty=uncertainty)
+    return out

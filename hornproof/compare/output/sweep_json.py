@@ -1,4 +1,4 @@
-"""``sweep.json``: the document of a sweep run (schema ``hornproof.sweep/1``).
+"""``sweep.json``: the document of a sweep run (schema ``hornproof.sweep/2``).
 
 The keys are described in :mod:`hornproof.compare.report.html`.
 """
@@ -6,11 +6,11 @@ The keys are described in :mod:`hornproof.compare.report.html`.
 from ...atomic import write_text_atomic
 from .json_document import dumps, read_json_document, stamped
 
-SWEEP_SCHEMA = "hornproof.sweep/1"
+SWEEP_SCHEMA = "hornproof.sweep/2"
 
 
 def write_sweep_json(path, document):
-    """Write ``sweep.json`` atomically with ``"schema": "hornproof.sweep/1"``; NaN -> ``null``.
+    """Write ``sweep.json`` atomically with ``"schema": "hornproof.sweep/2"``; NaN -> ``null``.
 
     A document carrying a different schema is refused (``ValueError``). Returns the JSON-ready
     document.

@@ -35,13 +35,14 @@ class RunRecord:
 
 
 def default_runner():
-    """``hornproof.compare.jobs.verify.verify_case``, imported only when a case must run: it
-    loads the solver stack, which a run served from the cache should not pay for."""
+    """``hornproof.compare.jobs.nightly_case.run_nightly_case`` (verify, and a case's sweep),
+    imported only when a case must run: it loads the solver stack, which a run served from the
+    cache should not pay for."""
     try:
-        from ..jobs.verify import verify_case
+        from ..jobs.nightly_case import run_nightly_case
     except ImportError as error:
-        raise RunError(f"hornproof.compare.jobs.verify is not available ({error}): cannot run cases") from None
-    return verify_case
+        raise RunError(f"hornproof.compare.jobs.nightly_case is not available ({error}): cannot run cases") from None
+    return run_nightly_case
 
 
 def _check_result(path, case_sha256):

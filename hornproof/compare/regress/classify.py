@@ -20,7 +20,7 @@ from dataclasses import dataclass
 from typing import NamedTuple
 
 from ..numerics.figures import FIGURES
-from ..output.baseline_file import FIGURE_UNITS
+from ..output.baseline_file import figure_unit
 
 __all__ = [
     "STATUSES",
@@ -64,7 +64,7 @@ class FigureVerdict:
             "figure": self.figure,
             "baseline_value": self.baseline_value,
             "new_value": self.new_value,
-            "unit": FIGURE_UNITS.get(self.figure, ""),
+            "unit": figure_unit(self.figure),
             "status": self.status,
             "tolerance": self.tolerance,
             "tolerance_key": self.tolerance_key,

@@ -184,3 +184,33 @@ def quantity_rows(mapping):
             text = value_text(value, decimals)
         rows.append({"name": name, "value": text, "unit": unit})
     return rows
+
+
+def _edge_text(value, unit, decimals):
+    return "the first value" if value == "below range" else f"{number(value, decimals)} {unit}"
+
+
+def breakdown_words(interval, unit, decimals=1):
+    """A breakdown interval (:func:`hornproof.compare.numerics.breakdown.breakdown_interval`)
+    in words, for tables and the terminal."""
+    if not isinstance(interval, dict):
+        return MISSING_VALUE
+    status = interval.get("status")
+    earliest, latest, nominal = interval.get("earliest"), interval.get("latest"), interval.get("nominal")
+    if status == "holds throughout":
+        return "holds over the whole sweep, uncertainty included"
+    if status == "past tolerance from the start":
+        return "already past the tolerance at the first value"
+    if status == "breaks":
+        back = interval.get("back_within") or []
+        spans = [number(lo, decimals) if hi == lo else f"{number(lo, decimals)}–{number(hi, decimals)}"
+                 for lo, hi in back]
+        again = f"; back within the tolerance at {', '.join(spans)} {unit}" if back else ""
+        if earliest == latest:
+            return f"breaks at {_edge_text(latest, unit, decimals)}{again}"
+        middle = "" if nominal in (None, "below range") else f", nominal {number(nominal, decimals)}"
+        return (f"breaks between {_edge_text(earliest, unit, decimals)} and "
+                f"{_edge_text(latest, unit, decimals)}{middle}{again}")
+    if earliest is None:
+        return f"unresolved: {interval.get('reason') or 'no usable point'}"
+    return f"unresolved: may break from {_edge_text(earliest, unit, decimals)} on; {interval.get('reason', '')}".rstrip("; ")

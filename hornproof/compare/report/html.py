@@ -63,7 +63,7 @@ other ``*.png`` alphabetically). If ``directivity_vs_frequency.png`` or ``s11.pn
 they are drawn from result.json; ``convergence_ladder.png`` is drawn from the convergence block
 (finest-grid frequency closest to the band centre).
 
-``sweep.json`` (schema ``"hornproof.sweep/1"``): see :mod:`hornproof.compare.report.sweep_page`.
+``sweep.json`` (schema ``"hornproof.sweep/2"``): see :mod:`hornproof.compare.report.sweep_page`.
 """
 
 from pathlib import Path
@@ -117,7 +117,7 @@ def build_report(result_dir, *, render_missing=True):
 
 
 def build_sweep_report(sweep_dir, *, render_missing=True):
-    """Write ``report.html`` for a sweep folder (``sweep.json``, schema ``hornproof.sweep/1``).
+    """Write ``report.html`` for a sweep folder (``sweep.json``, schema ``hornproof.sweep/2``).
 
     Parameters
     ----------

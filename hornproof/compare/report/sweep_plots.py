@@ -1,135 +1,175 @@
-"""The figures of a sweep: model error and directivity against the swept parameter."""
+"""The figures of a sweep: signed model errors with their breakdown intervals, the models'
+directivity with each optimum, and (when the sweep ran both) the 3D against the 2D
+aperture-model error."""
 
 import numpy as np
 
 # hornproof.compare.report.plots imports matplotlib at its top; this module is imported only
 # when a sweep folder is written (lazy for speed, see jobs.sweep.write_sweep_folder)
 from . import plots
-from .plots import axis_values
-from .figure_style import (MODEL_COLOURS, TOLERANCE_COLOUR, TOTAL_ERROR_COLOUR, float_array, legend_below,
-                           lower_first, new_figure, save_figure, set_title)
+from .figure_style import (MODEL_COLOURS, TOLERANCE_COLOUR, TOTAL_ERROR_COLOUR, legend_below, lower_first,
+                           new_figure, save_figure, set_title)
+from .format import breakdown_words
+
+#: the errors of a sweep: (key, colour key, label, line style)
+ERROR_SERIES = (
+    ("phase_approximation", "closed_form", "Phase-approximation error (closed form − exact phase)", "-"),
+    ("aperture_model", "fdtd", "Aperture-model error (exact phase − FDTD)", "-"),
+    ("total", "total", "Total error (closed form − FDTD)", ":"),
+)
 
 
-def _float_or_none(values):
+def floats(values):
+    """A float array from a JSON list (null -> NaN), or None."""
     return None if values is None else np.array([np.nan if v is None else v for v in values], dtype=float)
 
 
-def write_sweep_plots(folder, document):
-    """error_vs_parameter and directivity_vs_parameter of a sweep document into ``folder``."""
-    p = document["parameter"]
-    errors, uncertainties = document["errors"], document["uncertainties"]
+def _colour(key):
+    return TOTAL_ERROR_COLOUR if key == "total" else MODEL_COLOURS[key]
 
-    plot_error_vs_parameter(
-        _float_or_none(p["values"]), _float_or_none(errors["phase_approximation"]), _float_or_none(errors["aperture_model"]),
-        folder / "error_vs_parameter", total_error=_float_or_none(errors.get("total")),
-        phase_approximation_uncertainty=0.0,
-        aperture_model_uncertainty=_float_or_none(uncertainties["aperture_model"]),
-        total_uncertainty=_float_or_none(uncertainties.get("total")), tolerance=document["tolerance"],
-        breakdown=document["breakdown"], parameter_label=p["label"], parameter_unit=p["unit"],
-        error_label=f"{document['figure']['label']} error", error_unit="dB",
-        case_title=f"{document['title']} — at {document['frequency_ghz']:.3g} GHz")
+
+def write_sweep_plots(folder, document):
+    """error_vs_parameter, directivity_vs_parameter and (3D beside 2D) aperture_error_3d_vs_2d."""
+    plot_error_vs_parameter(folder / "error_vs_parameter", document)
     plot_directivity_vs_parameter(folder / "directivity_vs_parameter", document)
+    if document.get("principal_plane") and document["principal_plane"].get("models", {}).get("fdtd") is not None:
+        plot_principal_plane_parting(folder / "aperture_error_3d_vs_2d", document)
+
+
+def _draw_interval(ax, interval, colour, label, x_range):
+    """Shade a breakdown interval: solid from its earliest to its latest edge; hatched from the
+    earliest edge to the end of the sweep when unresolved ("below range" = the first value)."""
+    if not isinstance(interval, dict):
+        return
+    x_min, x_max = x_range
+    earliest, latest = (x_min if edge == "below range" else edge
+                        for edge in (interval.get("earliest"), interval.get("latest")))
+    if interval.get("status") == "breaks" and isinstance(earliest, (int, float)) and isinstance(latest, (int, float)):
+        if latest - earliest > 0:
+            ax.axvspan(earliest, latest, color=colour, alpha=0.16, linewidth=0, label=label)
+        else:
+            ax.axvline(latest, color=colour, linestyle=(0, (1, 2)), linewidth=1.6, label=label)
+    elif interval.get("status") == "unresolved" and isinstance(earliest, (int, float)):
+        ax.axvspan(earliest, x_max, facecolor="none", edgecolor=colour, hatch="///", alpha=0.5, linewidth=0,
+                   label=label)
+    else:
+        ax.plot([], [], " ", label=label)
+
+
+def plot_error_vs_parameter(path_stem, document):
+    """The signed model errors against the swept parameter, each FDTD point with its uncertainty
+    (hollow where it is not confident), the ± tolerance, and each error's breakdown interval.
+
+    The phase-approximation error is drawn from the dense analytic evaluation (no numerical
+    uncertainty); a sign change stays visible (errors are signed, the tolerance band is ±)."""
+    p = document["parameter"]
+    unit = p["unit"]
+    x = floats(p["values"])
+    fig, ax = new_figure(height=5.0)
+    errors, uncertainties = document.get("errors") or {}, document.get("uncertainties") or {}
+    confident = floats(document.get("fdtd_confident_uncertainty"))
+    dense = document.get("dense") or {}
+    for key, colour_key, label, style in ERROR_SERIES:
+        e = floats(errors.get(key))
+        if e is None:
+            continue
+        colour = _colour(colour_key)
+        if key == "phase_approximation" and dense.get("values"):
+            ax.plot(floats(dense["values"]), floats(dense["closed_form"]) - floats(dense["exact_phase"]),
+                    style, color=colour, linewidth=1.5, label=label)
+            ax.plot(x, e, "o", color=colour, markersize=3.5)
+        else:
+            ax.plot(x, e, style, color=colour, linewidth=1.4, label=label)
+            u = floats(uncertainties.get(key))
+            sure = np.isfinite(confident) if confident is not None else np.zeros(x.shape, bool)
+            ax.errorbar(x, e, yerr=np.where(np.isfinite(u), u, 0.0), fmt="none", ecolor=colour, capsize=3,
+                        linewidth=1)
+            ax.plot(x[sure], e[sure], "o", color=colour, markersize=5)
+            ax.plot(x[~sure], e[~sure], "o", markerfacecolor="white", markeredgecolor=colour, markersize=5)
+        interval = (document.get("breakdown") or {}).get(key)
+        words = breakdown_words(interval, unit)
+        _draw_interval(ax, interval, colour, f"Breakdown, {label.split(' (')[0].lower()}: {words}",
+                       (np.nanmin(x), np.nanmax(x)))
+    tolerance = document.get("tolerance")
+    if tolerance is not None:
+        for sign in (1, -1):
+            ax.axhline(sign * float(tolerance), color=TOLERANCE_COLOUR, linestyle="-.", linewidth=1.1,
+                       label=f"Tolerance ± {float(tolerance):g} dB" if sign > 0 else None)
+    ax.axhline(0.0, color="#bdbdbd", linewidth=0.8)
+    if confident is not None and np.any(~np.isfinite(confident)):
+        ax.plot([], [], "o", markerfacecolor="white", markeredgecolor="#555555",
+                label="Hollow: no confident uncertainty (bar = the ladder's bound or spread)")
+    ax.set_xlabel(f"{p['label']} ({unit})")
+    ax.set_ylabel(f"{document['figure']['label']} error (dB)")
+    set_title(ax, document.get("title", ""), f"Model errors against {lower_first(p['label'])} at "
+                                             f"{document['frequency_ghz']:.3g} GHz — {document.get('label', '')}")
+    legend_below(ax, ncol=1)
+    return save_figure(fig, path_stem)
 
 
 def plot_directivity_vs_parameter(path_stem, document):
-    """Each model's directivity against the swept parameter, FDTD with its uncertainty, and
-    each model's peak."""
+    """Each model's directivity against the swept parameter (the analytic ones dense), FDTD with
+    its uncertainty, and each model's peak (FDTD: the range that could hold it)."""
     p = document["parameter"]
-    x = np.asarray(p["values"], dtype=float)
+    x = floats(p["values"])
     fig, ax = new_figure()
+    dense = document.get("dense") or {}
     for name in ("closed_form", "exact_phase", "fdtd"):
-        y = document["models"].get(name)
+        y = floats(document["models"].get(name))
         if y is None:
             continue
-        y = np.array([np.nan if v is None else v for v in y], dtype=float)
+        if name != "fdtd" and dense.get("values"):
+            ax.plot(floats(dense["values"]), floats(dense[name]), plots.MODEL_LINESTYLES[name],
+                    color=plots.MODEL_COLOURS[name], label=plots.MODEL_LABELS[name])
+            ax.plot(x, y, "o", markersize=3.5, color=plots.MODEL_COLOURS[name])
+            continue
         ax.plot(x, y, "-o", markersize=4, color=plots.MODEL_COLOURS[name], label=plots.MODEL_LABELS[name])
-        if name == "fdtd" and document.get("fdtd_uncertainty") is not None:
-            u = np.array([np.nan if v is None else v for v in document["fdtd_uncertainty"]], dtype=float)
-            if np.any(np.isfinite(u)):
-                ax.errorbar(x, y, yerr=np.where(np.isfinite(u), u, 0), fmt="none",
-                            ecolor=plots.MODEL_COLOURS[name], capsize=3, linewidth=1)
+        u = floats(document.get("fdtd_uncertainty"))
+        if u is not None and np.any(np.isfinite(u)):
+            ax.errorbar(x, y, yerr=np.where(np.isfinite(u), u, 0), fmt="none",
+                        ecolor=plots.MODEL_COLOURS[name], capsize=3, linewidth=1)
     for name, best in (document.get("optimum") or {}).items():
-        if best and best.get("interior") and name in plots.MODEL_COLOURS:
-            ax.axvline(best["value"], color=plots.MODEL_COLOURS[name], linestyle=":", linewidth=1.2,
-                       label=f"{plots.MODEL_LABELS[name].split(' (')[0]} peak: {best['value']:.3g} {p['unit']}, "
-                             f"S = {best['phase_error_h_wl']:.2f}, T = {best['phase_error_e_wl']:.2f} wl")
+        if not best or name not in plots.MODEL_COLOURS:
+            continue
+        colour = plots.MODEL_COLOURS[name]
+        short = plots.MODEL_LABELS[name].split(" (")[0]
+        text = (f"{short} peak: {best['value']:.3g} {p['unit']}, S = {best['phase_error_h_wl']:.2f}, "
+                f"T = {best['phase_error_e_wl']:.2f} wl" + ("" if best.get("interior") else " (sweep edge)"))
+        if name == "fdtd" and best.get("range") and best["range"][1] > best["range"][0]:
+            ax.axvspan(*best["range"], color=colour, alpha=0.08, linewidth=0,
+                       label=f"FDTD peak could be anywhere in {best['range'][0]:.3g}–{best['range'][1]:.3g} {p['unit']}")
+        ax.axvline(best["value"], color=colour, linestyle=":", linewidth=1.2, label=text)
     ax.set_xlabel(f"{p['label']} ({p['unit']})")
     ax.set_ylabel(f"{document['figure']['label']} ({document['figure']['unit']})")
-    ax.set_title(f"{document['title']}\n{document['figure']['label']} at {document['frequency_ghz']:.3g} GHz "
-                 f"vs {p['label'].lower()} ({p['held_fixed']} fixed)", loc="left", fontsize=10)
-    ax.legend(loc="upper center", bbox_to_anchor=(0.5, -0.16), ncol=1, fontsize=8, frameon=False)
-    fig.subplots_adjust(bottom=0.38)
-    plots.save_figure(fig, path_stem)
+    set_title(ax, document.get("title", ""), f"{document['figure']['label']} at {document['frequency_ghz']:.3g} GHz "
+                                             f"vs {lower_first(p['label'])} ({p['held_fixed']} fixed)")
+    legend_below(ax, ncol=1)
+    return save_figure(fig, path_stem)
 
 
-def plot_error_vs_parameter(parameter_values, phase_approximation_error, aperture_model_error,
-                            path_stem, *, total_error=None, phase_approximation_uncertainty=0.0,
-                            aperture_model_uncertainty=None, total_uncertainty=None, tolerance=None,
-                            breakdown=None, parameter_label="Flare half-angle", parameter_unit="deg",
-                            error_label="Directivity error", error_unit="dB", case_title=""):
-    """Magnitude of the model errors over a sweep, with bands, tolerance and breakdown.
-
-    Parameters
-    ----------
-    parameter_values : array_like [n]
-        Swept parameter, in ``parameter_unit`` (default: flare half-angle in degrees).
-    phase_approximation_error, aperture_model_error, total_error : array_like [n] or None
-        Closed form − exact phase, exact phase − FDTD and closed form − FDTD, figure units;
-        |error| is drawn. None omits a curve.
-    path_stem : str
-    phase_approximation_uncertainty, aperture_model_uncertainty, total_uncertainty : float or array_like [n]
-        Numerical uncertainty of each error (band ±, clipped at 0).
-    tolerance : float, optional
-        Accepted |error|, drawn as a horizontal line.
-    breakdown : dict, optional
-        ``{"phase_approximation": value, "aperture_model": value, "total": value}`` from
-        :func:`hornproof.compare.numerics.verdict.breakdown_threshold`; a number draws a vertical
-        line (its value in the legend, one decimal), ``None`` / ``"below range"`` are written in
-        the legend.
-    parameter_label, parameter_unit, error_label, error_unit, case_title : str
-
-    Returns
-    -------
-    tuple of str
-    """
-    x = axis_values(parameter_values, "parameter_values")
-    order = np.argsort(x)
-    x = x[order]
-    fig, ax = new_figure(height=4.8)
-    series = (
-        ("phase_approximation", phase_approximation_error, phase_approximation_uncertainty, "closed_form",
-         "Phase-approximation error |closed form − exact phase|", "phase approximation"),
-        ("aperture_model", aperture_model_error, aperture_model_uncertainty, "fdtd",
-         "Aperture-model error |exact phase − FDTD|", "aperture model"),
-        ("total", total_error, total_uncertainty, "total",
-         "Total error |closed form − FDTD|", "total"),
-    )
-    breakdown = breakdown or {}
-    for key, err, unc, colour_key, label, name in series:
-        if err is None:
-            continue
-        e = np.abs(float_array(err, key + "_error", order.shape))[order]
-        colour = TOTAL_ERROR_COLOUR if colour_key == "total" else MODEL_COLOURS[colour_key]
-        style = ":" if key == "total" else "-"
-        ax.plot(x, e, style, marker="o", color=colour, markersize=4, linewidth=1.5, label=label)
-        if unc is not None:
-            u = np.broadcast_to(np.asarray(unc, dtype=float), order.shape)[order]
-            if np.any(u > 0):
-                ax.fill_between(x, np.clip(e - u, 0, None), e + u, color=colour, alpha=0.12,
-                                linewidth=0, label=label.split(" |")[0] + ": numerical uncertainty (±)")
-        where = breakdown.get(key)
-        if isinstance(where, (int, float)) and np.isfinite(where):
-            ax.axvline(where, color=colour, linestyle=(0, (1, 2)), linewidth=1.6,
-                       label=f"Breakdown of the {name}: {where:.1f} {parameter_unit}")
-        elif key in breakdown:
-            text = "beyond tolerance from the first value" if where == "below range" else "none in range"
-            ax.plot([], [], " ", label=f"Breakdown of the {name}: {text}")
+def plot_principal_plane_parting(path_stem, document):
+    """The aperture-model error of the 3D model of the real horn beside the 2D principal-plane
+    model's, each with its uncertainty, and where the two part."""
+    p = document["parameter"]
+    x = floats(p["values"])
+    fig, ax = new_figure()
+    for block, colour, label in ((document, MODEL_COLOURS["fdtd"], "3D model of the real horn"),
+                                 (document["principal_plane"], "#8a5a9e", "2D principal-plane model")):
+        e = floats(block["errors"]["aperture_model"])
+        u = floats(block["uncertainties"]["aperture_model"])
+        ax.errorbar(x, e, yerr=np.where(np.isfinite(u), u, 0.0), fmt="-o", color=colour, capsize=3,
+                    markersize=4, linewidth=1.3, label=f"Aperture-model error, {label}")
+    tolerance = document.get("tolerance")
     if tolerance is not None:
-        ax.axhline(float(tolerance), color=TOLERANCE_COLOUR, linestyle="-.", linewidth=1.2,
-                   label=f"Tolerance {float(tolerance):g} {error_unit}")
-    ax.set_ylim(bottom=0.0)
-    ax.set_xlabel(f"{parameter_label} ({parameter_unit})")
-    ax.set_ylabel(f"|{error_label}| ({error_unit})")
-    set_title(ax, case_title, f"Model error against {lower_first(parameter_label)}")
+        for sign in (1, -1):
+            ax.axhline(sign * float(tolerance), color=TOLERANCE_COLOUR, linestyle="-.", linewidth=1.1,
+                       label=f"Tolerance ± {float(tolerance):g} dB" if sign > 0 else None)
+    parted = document.get("parting") or {}
+    _draw_interval(ax, parted.get("interval"), "#8a5a9e",
+                   "Where 3D and 2D part: " + breakdown_words(parted.get("interval"), p["unit"]).replace(
+                       "breaks", "differ beyond the tolerance"), (np.nanmin(x), np.nanmax(x)))
+    ax.set_xlabel(f"{p['label']} ({p['unit']})")
+    ax.set_ylabel("Aperture-model error (dB)")
+    set_title(ax, document.get("title", ""), "What the 2D first look says of the aperture model, and the 3D truth")
     legend_below(ax, ncol=1)
     return save_figure(fig, path_stem)

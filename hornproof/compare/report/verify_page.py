@@ -12,6 +12,8 @@ from ..numerics.confidence import confident_uncertainty
 from ..numerics.figures import directivity_key
 from ..numerics.verdict import COMPARED_FIGURES
 from . import plots
+from .range_shop_page import range_shop_captions, range_shop_context
+from .range_shop_plots import write_tolerance_plot
 from .verify_plots import confident_flags
 from .feed_section import feed_context
 from .format import CHECK_NAMES, MISSING_VALUE, number, quantity_rows, unit_decimals
@@ -204,6 +206,7 @@ def figure_captions(result):
             parts.append("the GCI band" if estimate.get("uncertainty_kind") == "gci"
                          else "a bound from the ladder spread (not an error estimate)")
         captions["convergence_ladder"] = parts[0] + (", with " + " and ".join(parts[1:]) if parts[1:] else "") + "."
+    captions.update(range_shop_captions(result))
     return captions
 
 
@@ -230,6 +233,7 @@ def verify_context(result):
         "grid_fit": grid_fit_table(result),
         "refinement": refinement_text(result),
         "feed": feed_context(result),
+        **range_shop_context(result),  # wall loss, finite range, tolerances (templates/range_shop.html.j2)
     }
 
 
@@ -303,6 +307,8 @@ def render_missing_result_figures(folder, result):
                 fdtd_confident=confident_flags(all_estimates.get(key), len(f_ghz)) if key in all_estimates else None,
                 case_title=title,
                 unit=unit, quantity="2D directivity" if unit == "dB" else "Directivity")
+    if result.get("tolerance") and not (folder / "tolerance.png").exists():
+        write_tolerance_plot(folder, result)
     s11 = models.get("fdtd", {}).get("s11_db")
     if s11 is not None and not (folder / "s11.png").exists():
         stored = (models.get("fdtd", {}).get("uncertainty") or {}).get("s11_db")

@@ -390,7 +390,8 @@ def sweep_case(tmp_path, base, parameter, values, extra=""):
 
 def test_sweep_flare_angle_is_what_geometry_reports(tmp_path):
     case = sweep_case(tmp_path, GOOD, "flare_half_angle_h_deg", [10, 20, 30, 45])
-    assert case.sweep.dims == 2 and case.sweep.cells_per_wavelength == 12.0
+    # 3D (the real horn) unless the sweep asks for the 2D look; no ladder: each point's default
+    assert case.sweep.dims == 3 and case.sweep.cells_per_wavelength is None
     horns = case.sweep.horns(case.horn)
     assert [value for value, _ in horns] == [10, 20, 30, 45]
     for value, horn in horns:
@@ -425,7 +426,8 @@ def test_sweep_flare_length_keeps_the_angles(tmp_path):
 def test_sweep_aperture_and_cells(tmp_path):
     case = sweep_case(tmp_path, GOOD, "aperture_a_mm", [40, 60, 80],
                       "cells_per_wavelength = 16\ndims = 3\n")
-    assert case.sweep.cells_per_wavelength == 16.0 and case.sweep.dims == 3
+    # one number N: the grids N, 1.4 N, 2 N (GRID_RATIOS)
+    assert case.sweep.cells_per_wavelength == (16.0, 22.4, 32.0) and case.sweep.dims == 3
     assert [h.aperture_a for _, h in case.sweep.horns(case.horn)] == pytest.approx(
         [0.040, 0.060, 0.080])
 
@@ -448,8 +450,10 @@ def test_sweep_parameter_table_says_what_horn_at_does(parameter):
     assert PARAMETER_LABELS[parameter] == (described.label, described.unit)
     base = HornGeometry("pyramidal", 0.02286, 0.01016, 0.09, 0.07, 0.16)
     value = 25.0 if described.unit == "deg" else 120.0
-    swept = SweepSpec(parameter, (value, value + 5.0), 3, 12.0).horn_at(base, value)
-    if described.held_fixed == "flare length":
+    swept = SweepSpec(parameter, (value, value + 5.0), 3, (12.0,), frequency=10e9).horn_at(base, value)
+    if parameter == "optimum_flare_length_mm":
+        assert swept.flare_length == pytest.approx(value * 1e-3)
+    elif described.held_fixed == "flare length":
         assert swept.flare_length == base.flare_length
     else:
         assert described.held_fixed == "flare half-angles"

@@ -151,10 +151,12 @@ def test_help_matches_the_documented_options():
     expected = {
         "predict": ["--json", "--equivalent"],
         "simulate": ["--cells-per-wavelength", "--out", "--json", "--image", "--force"],
-        "verify": ["--cells-per-wavelength", "--target-uncertainty", "--budget", "--out", "--json", "--force"],
+        "verify": ["--cells-per-wavelength", "--target-uncertainty", "--budget", "--range-m", "--out", "--json",
+                   "--force"],
         "sweep": ["--cells-per-wavelength", "--dims", "--analytic-only", "--out"],
         "regress": ["--tier", "--update", "--junit", "--baselines", "--fresh"],
         "report": [],
+        "exposure": ["--power-w", "--gain-dbi", "--json"],
     }
     readme = (ROOT / "README.md").read_text()
     for command, options in expected.items():

@@ -7,7 +7,7 @@ of ASME V&V 20-2009: a comparison error is judged together with its numerical un
 import numpy as np
 import pytest
 
-from hornproof.compare.numerics.verdict import (breakdown_threshold, error_split, overall_verdict,
+from hornproof.compare.numerics.verdict import (error_split, overall_verdict,
                                        verdict, verdicts)
 
 
@@ -67,27 +67,6 @@ def test_error_split_sums_to_total():
         error_split([1.0], [1.0, 2.0], [1.0])
 
 
-def test_breakdown_threshold_interpolates():
-    # Worked by hand: angles 5, 10, 15, 20 deg; |error| 0.1, 0.3, 0.9, 1.5; u 0.1 each;
-    # t 0.5 -> margins −0.5, −0.3, +0.3, +0.9; zero between 10 and 15 at 10 + 0.3/0.6·5 = 12.5.
-    x = [20.0, 5.0, 15.0, 10.0]          # unsorted on purpose
-    e = [-1.5, 0.1, 0.9, -0.3]
-    assert breakdown_threshold(x, e, 0.1, 0.5) == pytest.approx(12.5)
-
-
-def test_breakdown_threshold_none_and_below_range():
-    x = [5.0, 10.0, 15.0]
-    assert breakdown_threshold(x, [0.1, 0.2, 0.3], [0.0, 0.0, 0.0], 0.5) is None
-    assert breakdown_threshold(x, [0.8, 0.9, 1.0], [0.0, 0.0, 0.0], 0.5) == "below range"
-    # Large uncertainty keeps a large error from counting as a breakdown.
-    assert breakdown_threshold(x, [0.1, 0.9, 1.2], [0.1, 0.5, 0.8], 0.5) is None
-    # NaN samples are skipped: the crossing moves to the next usable pair (5 -> 15):
-    # margins −0.4, +0.5 -> 5 + 0.4/0.9·10 = 9.444…
-    assert breakdown_threshold(x, [0.1, np.nan, 1.0], 0.0, 0.5) == pytest.approx(5 + 0.4 / 0.9 * 10)
-    with pytest.raises(ValueError, match="parameter_values"):
-        breakdown_threshold([1.0, 1.0], [0.1, 0.2], 0.0, 0.5)
-
-
 def test_comparison_block_by_hand():
     # Two frequencies; tolerance 0.5 dB; FDTD uncertainty 0.1 and 0.8 dB.
     # f1: cf − fdtd = 16.2 − 15.8 = 0.4 -> agrees; f2: 17.0 − 16.4 = 0.6, u = 0.8 > t -> unresolved.
@@ -114,4 +93,3 @@ def test_comparison_block_by_hand():
 def test_json_nulls_are_accepted():
     # Lists read back from result.json carry None for NaN: treated as unknown, not an error.
     assert verdicts([0.1, None], 0.5, [None, 0.1]) == ["unresolved", "missing"]
-    assert breakdown_threshold([1.0, 2.0, 3.0], [0.1, None, 0.9], [0.0, 0.0, None], 0.5) is None

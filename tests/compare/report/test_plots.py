@@ -14,7 +14,7 @@ import xml.etree.ElementTree as ET
 import numpy as np
 import pytest
 
-from hornproof.compare.numerics import convergence, verdict
+from hornproof.compare.numerics import convergence
 from hornproof.compare.report import plots, sweep_plots
 
 PNG_SIGNATURE = b"\x89PNG\r\n\x1a\n"  # PNG specification (ISO/IEC 15948), file signature
@@ -82,20 +82,21 @@ def test_convergence_ladder(tmp_path):
                                              estimate=osc.to_dict(), case_title="Synthetic"))
 
 
-def test_error_vs_parameter_with_breakdown(tmp_path):
+def test_error_vs_parameter_with_breakdown(tmp_path, synthetic_sweep):
     angle = np.linspace(4.0, 30.0, 14)
     phase = 0.002 * angle**2
     aperture = 0.1 + 0.01 * angle
     u = 0.05 + 0.002 * angle
-    brk = {"phase_approximation": verdict.breakdown_threshold(angle, phase, 0.0, 0.5),
-           "aperture_model": verdict.breakdown_threshold(angle, aperture, u, 0.5)}
+    document = synthetic_sweep(angle, phase, aperture, u)
+    brk = document["breakdown"]
     # |phase| = 0.002 θ² crosses 0.5 at θ = sqrt(250) = 15.8 deg (between samples 14 and 16)
-    assert brk["phase_approximation"] == pytest.approx(np.sqrt(250), abs=0.2)
-    assert brk["aperture_model"] is None
-    check_pair(sweep_plots.plot_error_vs_parameter(
-        angle, phase, aperture, tmp_path / "error_vs_parameter",
-        phase_approximation_uncertainty=0.0, aperture_model_uncertainty=u, tolerance=0.5,
-        breakdown=brk, case_title="Synthetic flare sweep"))
+    assert brk["phase_approximation"]["latest"] == pytest.approx(np.sqrt(250), abs=0.2)
+    # |e| + u = 0.15 + 0.012 θ reaches 0.5 at θ = 29.17 (linear, so exact between samples), while
+    # |e| − u = 0.05 + 0.008 θ never does: it may break there, nothing is sure -> unresolved
+    assert brk["aperture_model"]["status"] == "unresolved"
+    assert brk["aperture_model"]["earliest"] == pytest.approx(0.35 / 0.012, abs=1e-9)
+    check_pair(sweep_plots.plot_error_vs_parameter(tmp_path / "error_vs_parameter", document))
+    check_pair(sweep_plots.plot_directivity_vs_parameter(tmp_path / "directivity_vs_parameter", document))
 
 
 def test_s11_and_atomic_failure(tmp_path):

@@ -128,28 +128,13 @@ def test_report_refuses_unknown_schema(tmp_path):
         report.build_report(tmp_path)
 
 
-def test_sweep_report(tmp_path):
+def test_sweep_report(tmp_path, synthetic_sweep):
     angle = np.linspace(4.0, 30.0, 8)
     phase = 0.002 * angle**2
     aperture = 0.1 + 0.01 * angle
     u = np.full(angle.shape, 0.1)
-    brk = {"phase_approximation": verdict.breakdown_threshold(angle, phase, 0.0, 0.5),
-           "aperture_model": verdict.breakdown_threshold(angle, aperture, u, 0.5)}
-    sweep = {
-        "schema": "hornproof.sweep/1", "case": "sweep-synthetic", "title": "Synthetic sweep",
-        "case_sha256": "1" * 64,
-        "parameter": {"name": "flare_half_angle_h_deg", "label": "H-plane flare half-angle",
-                      "unit": "deg", "values": angle.tolist()},
-        "frequency_ghz": 10.5, "figure": {"name": "directivity_dbi", "label": "Directivity", "unit": "dB"},
-        "tolerance": 0.5,
-        "models": {"closed_form": (16 + phase).tolist(), "exact_phase": [16.0] * 8,
-                   "fdtd": (16 - aperture).tolist()},
-        "fdtd_uncertainty": u.tolist(),
-        "errors": {"phase_approximation": phase.tolist(), "aperture_model": aperture.tolist(),
-                   "total": (phase + aperture).tolist()},
-        "uncertainties": {"phase_approximation": [0.0] * 8, "aperture_model": u.tolist()},
-        "breakdown": brk,
-    }
+    sweep = synthetic_sweep(angle, phase, aperture, u)
+    brk = sweep["breakdown"]
     (tmp_path / "sweep.json").write_text(json.dumps(sweep))
     text = open(report.build_sweep_report(tmp_path), encoding="utf-8").read()
     assert not re.search(r"https?://", text)
@@ -157,14 +142,16 @@ def test_sweep_report(tmp_path):
     # Margins 0.002 θ² − 0.5 at the samples θ = 15.143 and 18.857 deg are −0.0414 and +0.2112:
     # linear interpolation gives 15.143 + 0.0414/0.2526 · 3.714 = 15.75 deg (the smooth
     # curve crosses at sqrt(250) = 15.81 deg).
-    assert brk["phase_approximation"] == pytest.approx(15.75, abs=0.01)
+    assert brk["phase_approximation"]["latest"] == pytest.approx(15.75, abs=0.01)
     # Shown to one decimal: the swept values are 3.7 deg apart.
-    assert f"{brk['phase_approximation']:.1f} deg" in text
-    assert f"{brk['phase_approximation']:.3f}" not in text
-    assert "none within the swept range" in text
+    assert f"breaks at {brk['phase_approximation']['latest']:.1f} deg" in text
+    assert f"{brk['phase_approximation']['latest']:.3f}" not in text
+    # |aperture| + u = 0.1 + 0.01 θ + 0.1 ≤ 0.5 up to θ = 30: holds throughout, uncertainty included
+    assert "holds over the whole sweep, uncertainty included" in text
+    assert "3D model of the real horn" in text
     assert "IEEE C95.1-2019" in text
     (tmp_path / "sweep.json").write_text(json.dumps({**sweep, "schema": "hornproof.result/1"}))
-    with pytest.raises(InputError, match="hornproof.sweep/1"):
+    with pytest.raises(InputError, match="hornproof.sweep/2"):
         report.build_sweep_report(tmp_path)
 
 
