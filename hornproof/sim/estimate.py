@@ -58,6 +58,7 @@ from ..units import SPEED_OF_LIGHT
 
 __all__ = [
     "ResourceEstimate",
+    "far_field_frequency_cost",
     "estimate_resources",
     "estimate_for_layout",
     "courant_timesteps",
@@ -242,6 +243,22 @@ def estimate_for_layout(layout, n_frequencies, use_symmetry=True, steps=0, rate=
                                symmetry, steps, pml_thickness_m=pml_sides, rate=rate)
     seconds = empty.seconds * MODEL_TIME_FACTOR + steps * PER_STEP_OVERHEAD_SECONDS
     return dataclasses.replace(empty, seconds=seconds)
+
+
+def far_field_frequency_cost(layout, n_frequencies, use_symmetry=True, available=None):
+    """What one more far-field (gain) frequency costs, and how many would fit in memory.
+
+    Each band frequency stores tangential DFT fields on the whole near-to-far and flux box
+    (the ``c`` term of the model); the dense S11 band does not (it lives on one plane of the
+    feed guide). Returns (bytes per extra frequency, largest number of far-field frequencies
+    whose peak memory fits in ``available`` bytes, or None when ``available`` is unknown).
+    """
+    base = estimate_for_layout(layout, n_frequencies, use_symmetry)
+    step = estimate_for_layout(layout, n_frequencies + 1, use_symmetry).memory_bytes - base.memory_bytes
+    if available is None or step <= 0:
+        return step, None
+    spare = available - base.peak_memory_bytes
+    return step, int(max(0, n_frequencies + spare // step))
 
 
 def available_memory_bytes(meminfo="/proc/meminfo"):

@@ -87,6 +87,54 @@ def add_mode_monitor(sim, layout, meep_frequencies):
     return sim.add_dft_fields([getattr(mp, name)], np.asarray(meep_frequencies), where=where)
 
 
+#: S11 frequencies of the dense band: a DFT on the guide axis is cheap (one line of the feed
+#: guide), so S11 is read at this many points across [f_min, f_max] of the same run
+DENSE_BAND_POINTS = 101
+
+
+def dense_band(frequencies, points=DENSE_BAND_POINTS):
+    """``points`` frequencies (Hz) evenly over [min, max] of the band; None for a one-frequency band."""
+    f = np.asarray(frequencies, dtype=float)
+    if f.size < 2 or not f.max() > f.min():
+        return None
+    return np.linspace(f.min(), f.max(), int(points))
+
+
+def add_axis_mode_monitor(sim, layout, meep_frequencies):
+    """DFT of the mode's E component on the guide axis over the fit window (a line: cheap with
+    many frequencies). On the axis the TE10 (or TE1 / TEM) field is the modal voltage times the
+    profile's peak; the symmetric higher modes are evanescent in the window (its margins)."""
+    import meep as mp
+
+    name, _ = mode_profile(layout)
+    z0, z1 = layout.fit_z
+    size = mp.Vector3(0, 0, z1 - z0) if layout.dims == 3 else mp.Vector3(0, z1 - z0)
+    where = mp.Volume(center=layout.point((0, 0), 0.5 * (z0 + z1)), size=size)
+    return sim.add_dft_fields([getattr(mp, name)], np.asarray(meep_frequencies), where=where)
+
+
+def axis_reflection(sim, layout, monitor, meep_frequencies):
+    """S11 at the throat from the axis line monitor (``add_axis_mode_monitor``): dict of arrays
+    ``s11``, ``beta``, ``fit_residual`` [nf], as :func:`reflection_at_throat`."""
+    import meep as mp
+
+    name, _ = mode_profile(layout)
+    component = getattr(mp, name)
+    freqs = np.asarray(meep_frequencies, dtype=float)
+    x, y, z, _ = sim.get_array_metadata(dft_cell=monitor)
+    axial = np.asarray(z if layout.dims == 3 else y, dtype=float).ravel() + layout.cell_center_z
+    cutoff = 0.0 if (layout.dims == 2 and layout.transverse == "e") else 1.0 / (2 * guide_width(layout))
+    out = {k: [] for k in ("s11", "beta", "fit_residual")}
+    for i, f in enumerate(freqs):
+        line = np.asarray(sim.get_dft_array(monitor, component, i)).ravel()
+        estimate = 1.0 / np.sqrt(max(f**2 - cutoff**2, 1e-6 * f**2))
+        forward, backward, beta, residual = fit_travelling_waves(line, axial, estimate)
+        out["s11"].append(backward / forward)
+        out["beta"].append(beta)
+        out["fit_residual"].append(residual)
+    return {k: np.array(v) for k, v in out.items()}
+
+
 def add_guide_flux(sim, layout, meep_frequencies):
     """Net power flux through the feed guide's cross-section (towards the horn)."""
     import meep as mp

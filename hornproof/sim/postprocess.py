@@ -9,7 +9,7 @@ import numpy as np
 from ..analytic.pattern_metrics import cut_metrics, plane_features
 from ..errors import RunError
 from ..units import db10, db20
-from .feed import reflection_at_throat, vswr
+from .feed import axis_reflection, reflection_at_throat, vswr
 from .gain import PEC_RADIATION_EFFICIENCY, gain, power_balance_error, realized_gain
 from .layout import FAR_FIELD_DISTANCE
 from .pattern import cut_directions, directivity, polarisation_split, radiation_intensity, sphere_directions, sphere_power
@@ -142,7 +142,9 @@ def post_process(sim, layout, settings, frequencies, meep_frequencies, monitors)
     """The ``SimResult`` of a finished run.
 
     ``monitors`` is a dict: ``mode`` and ``guide_flux`` (``sim.feed``), ``far_field`` and
-    ``box_flux`` (``sim.surface.add_far_field_monitors``).
+    ``box_flux`` (``sim.surface.add_far_field_monitors``); optionally ``dense_mode``, a tuple
+    (axis monitor over the dense band followed by the band frequencies, dense Hz, dense Meep
+    frequencies) for S11 over the dense band (``feed.dense_band``, ``feed.axis_reflection``).
     """
     nf = meep_frequencies.size
     powers = feed_powers(sim, layout, meep_frequencies, monitors["mode"], monitors["guide_flux"],
@@ -171,6 +173,16 @@ def post_process(sim, layout, settings, frequencies, meep_frequencies, monitors)
              "radiation_efficiency_note": "PEC walls, no wall loss modelled: gain = directivity"},
     )
     result.extra.update(plane_features(theta, h_cut, e_cut))  # main-lobe edge flags, sidelobe angles
+    if "dense_mode" in monitors:
+        monitor, dense_hz, dense_meep = monitors["dense_mode"]
+        found = axis_reflection(sim, layout, monitor, np.concatenate([dense_meep, meep_frequencies]))
+        n = len(dense_meep)
+        result.dense_band = {"frequencies_hz": np.asarray(dense_hz, dtype=float), "s11": found["s11"][:n],
+                             "fit_residual": found["fit_residual"][:n],
+                             # the axis read-out against the full-plane projection at the band frequencies
+                             "band_check_abs": np.abs(found["s11"][n:] - powers["s11"])}
+    if layout.dims == 3:
+        result.feed_pattern = feed_pattern(far_field, layout, meep_frequencies, theta, p_box)
     distances = (settings.extra or {}).get("range_distances_m")
     if distances and layout.dims == 3:  # [range] of the case: the gain a probe at R would infer
         result.extra["range_gain_dbi"] = range_gain_dbi(sim, monitors["far_field"], layout, meep_frequencies,
@@ -196,3 +208,51 @@ def full_pattern(far_field, step_deg, radiated_power):
     return {"theta_deg": theta, "phi_deg": phi, "directivity_dbi": db10(d),
             "co_polar_dbi": db10(d * co_frac.reshape(d.shape)),
             "sphere_power_ratio": sphere_power(intensity, theta, phi) / radiated_power}
+
+
+#: the (θ, φ) grid of the feed pattern: θ 0…180° in this step, φ one quadrant (the horn is
+#: symmetric about both principal planes, so the quadrant holds the whole sphere)
+FEED_SPHERE_THETA_STEP_DEG = 1.0
+FEED_SPHERE_PHI_DEG = (0.0, 15.0, 30.0, 45.0, 60.0, 75.0, 90.0)
+
+
+def _feed_amplitudes(e, co, cross, meep_frequencies, radiated_power):
+    """Ludwig-3 amplitudes with |g|² = D, phase about the Meep origin, in the e^{+jωt} convention.
+
+    Meep's far field at r carries e^{+ikr} (e^{−iωt}); that factor is removed, the amplitude
+    scaled by r √(4π / P_rad), and the result conjugated to e^{+jωt} (as the aperture models).
+    """
+    k = 2 * np.pi * np.asarray(meep_frequencies, dtype=float)
+    r = FAR_FIELD_DISTANCE
+    scale = (r * np.sqrt(4 * np.pi / np.asarray(radiated_power, dtype=float)) * np.exp(-1j * k * r))[:, None]
+    g_co = scale * np.einsum("fpk,pk->fp", e, co)
+    g_x = scale * np.einsum("fpk,pk->fp", e, cross)
+    return np.conj(g_co), np.conj(g_x)
+
+
+def feed_pattern(far_field, layout, meep_frequencies, theta, radiated_power):
+    """Complex co- and cross-polar far fields for the feed figures (3D models only).
+
+    Returns a dict: ``theta_deg`` [nθ] and ``cuts`` {"h", "e", "d45"} -> (co, cross) complex
+    [nf, nθ] on the signed cut (φ = 0°, 90°, 45°; negative θ is φ + 180°), ``sphere_theta_deg``,
+    ``sphere_phi_deg`` (one quadrant) and ``sphere`` (co, cross) [nf, nθ, nφ];
+    ``phase_reference_z_m``, the horn axial coordinate (throat at 0) of the phase reference.
+    Amplitudes are scaled so that |co|² + |cross|² is the directivity (Ludwig's third
+    definition, E along y; e^{+jωt}, far field ∝ g e^{−jkr}/r).
+    """
+    cuts = {}
+    for name, phi in (("h", 0.0), ("e", 90.0), ("d45", 45.0)):
+        directions, co, cross = sphere_directions(theta, [phi])
+        e, _ = far_field(directions)
+        cuts[name] = _feed_amplitudes(e, co, cross, meep_frequencies, radiated_power)
+    sphere_theta = np.arange(0.0, 180.0 + 1e-9, FEED_SPHERE_THETA_STEP_DEG)
+    sphere_phi = np.asarray(FEED_SPHERE_PHI_DEG)
+    directions, co, cross = sphere_directions(sphere_theta, sphere_phi)
+    e, _ = far_field(directions)
+    shape = (e.shape[0], sphere_theta.size, sphere_phi.size)
+    g_co, g_x = _feed_amplitudes(e, co, cross, meep_frequencies, radiated_power)
+    return {"theta_deg": np.asarray(theta, dtype=float), "cuts": cuts,
+            "sphere_theta_deg": sphere_theta, "sphere_phi_deg": sphere_phi,
+            "sphere": (g_co.reshape(shape), g_x.reshape(shape)),
+            "phase_reference_z_m": layout.cell_center_z * layout.unit_length,
+            "convention": "exp(+j omega t); |co|^2 + |cross|^2 = directivity; Ludwig 3, E along y"}

@@ -30,7 +30,7 @@ import numpy as np
 
 from ..errors import RunError
 from .estimate import check_fits, estimate_for_layout
-from .feed import add_guide_flux, add_mode_monitor, feed_source, mode_profile, source_band
+from .feed import add_axis_mode_monitor, add_guide_flux, add_mode_monitor, dense_band, feed_source, mode_profile, source_band
 from .layout import boundary_layers, plan_layout
 from .postprocess import post_process
 from .surface import add_far_field_monitors, closed_surface, farfield_method
@@ -69,10 +69,11 @@ def _stop_condition(settings, layout, source_end, f_min_meep, component, probe, 
     return until
 
 
-def _build_simulation(layout, settings, meep_frequencies):
+def _build_simulation(layout, settings, meep_frequencies, dense=None):
     """The Meep simulation of the horn with its feed and monitors.
 
     Returns (sim, symmetries, pulse width, monitors) with monitors as ``post_process`` takes them.
+    ``dense`` (Hz, or None) adds a second mode monitor for S11 over the dense band.
     """
     import meep as mp  # lazy: Meep is slow to import
 
@@ -84,6 +85,12 @@ def _build_simulation(layout, settings, meep_frequencies):
                         sources=[source], symmetries=mirrors, eps_averaging=False, dimensions=layout.dims)
     monitors = {"mode": add_mode_monitor(sim, layout, meep_frequencies),
                 "guide_flux": add_guide_flux(sim, layout, meep_frequencies)}
+    if dense is not None:
+        dense_meep = layout.meep_frequency(dense)
+        # the dense band on the guide axis (a line); the band frequencies too, to check it against
+        # the full-plane projection of the band's own S11
+        both = np.concatenate([dense_meep, meep_frequencies])
+        monitors["dense_mode"] = (add_axis_mode_monitor(sim, layout, both), dense, dense_meep)
     monitors["far_field"], monitors["box_flux"] = add_far_field_monitors(
         sim, closed_surface(layout), meep_frequencies, farfield_method(settings))
     return sim, mirrors, width, monitors
@@ -178,7 +185,7 @@ def simulate(horn, frequencies, settings, cells_per_wavelength, *, progress=None
         raise RunError("Meep is not importable (Debian python3-meep-mpi-default): run scripts/bootstrap") from exc
     mp.verbosity(0)
     meep_frequencies = layout.meep_frequency(frequencies)
-    sim, mirrors, width, monitors = _build_simulation(layout, settings, meep_frequencies)
+    sim, mirrors, width, monitors = _build_simulation(layout, settings, meep_frequencies, dense_band(frequencies))
     state = _run_until_settled(sim, layout, settings, meep_frequencies, width, progress)
     state["t_start"] = t_start
     t_far = time.monotonic()

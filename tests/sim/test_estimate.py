@@ -197,3 +197,25 @@ def test_stepping_rate_measured_once_and_cached(tmp_path):
     stored = json.loads(cache.read_text())
     assert stored["cell_steps_per_second"] == rate
     assert stepping_rate(str(cache), measure=True) == rate  # read back, not measured again
+
+
+def test_far_field_frequency_cost_is_the_surface_term_of_the_model():
+    # the memory model's c term (module notes): one more frequency stores tangential DFT fields
+    # on the near-to-far and flux surfaces, c × surface cells; "fits" counts down from the
+    # available memory (arithmetic of the model itself, an internal check)
+    import numpy as np
+
+    from hornproof.analytic.geometry import HornGeometry
+    from hornproof.sim.estimate import estimate_for_layout, far_field_frequency_cost
+    from hornproof.sim.layout import plan_layout
+    from hornproof.sim.settings import FdtdSettings
+
+    horn = HornGeometry("pyramidal", 22.86e-3, 10.16e-3, 80e-3, 60e-3, 70e-3, 1e-3)  # invented test horn
+    layout = plan_layout(horn, np.array([9.5e9, 10.5e9]), FdtdSettings(), 16.0)
+    step, none = far_field_frequency_cost(layout, 3)
+    assert none is None and step > 0
+    five = estimate_for_layout(layout, 5).memory_bytes - estimate_for_layout(layout, 3).memory_bytes
+    assert 2 * step == pytest.approx(five, rel=1e-9)
+    base = estimate_for_layout(layout, 3).peak_memory_bytes
+    _, fitting = far_field_frequency_cost(layout, 3, available=base + 10.5 * step)
+    assert fitting == 13

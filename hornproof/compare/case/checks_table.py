@@ -1,7 +1,8 @@
 """The ``[checks]`` table of a case file: how closely FDTD must agree with an analytic model.
 
 Each tolerance key (the one list is ``compare.numerics.figures.CHECK_TOLERANCE_KEYS``) holds a
-positive tolerance, dB for the *_db keys and degrees for the *_deg keys; ``model`` names the
+positive tolerance, dB for the *_db keys, degrees for the *_deg keys, mm for *_mm and
+percentage points for *_pct; ``model`` names the
 analytic model the FDTD result is held against.
 """
 
@@ -19,7 +20,7 @@ def read_checks(table):
     checks = {}
     for key in CHECK_TOLERANCE_KEYS:
         if key in table:
-            unit = "dB" if key.endswith("_db") else "degrees"
+            unit = {"_db": "dB", "_mm": "mm", "_pct": "percentage points"}.get(key[key.rfind("_"):], "degrees")
             checks[key] = read_positive(table, key, "checks", unit=f"a tolerance in {unit}")
     model = read_choice(table, "model", "checks", CHECK_MODELS, default="closed_form")
     return checks, model

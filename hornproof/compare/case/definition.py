@@ -12,6 +12,7 @@ from ...sim.settings import FdtdSettings
 from ..numerics.metrics import band_centre_index
 from .band_table import band_frequencies, check_band_against_guide, guide_warnings, read_band
 from .checks_table import read_checks
+from .feed_table import read_feed
 from .fdtd_table import grid_warnings, read_fdtd
 from .horn_table import read_horn, read_wall
 from .range_table import read_range
@@ -28,7 +29,7 @@ FORMAT_VERSION = 1
 #: longest title accepted (a title is one line of a report)
 MAX_TITLE_LENGTH = 200
 
-TOP_KEYS = ("format", "title", "horn", "band", "fdtd", "checks", "sweep", "tiers", "range", "tolerance", "map")
+TOP_KEYS = ("format", "title", "horn", "band", "fdtd", "checks", "sweep", "tiers", "range", "tolerance", "map", "feed")
 
 
 def case_fields(path, raw, *, tier=None, cells_override=None):
@@ -67,6 +68,7 @@ def _validated_fields(path, raw, tier, cells_override):
     fdtd_fields, quick_2d = read_fdtd(read_table(raw, "fdtd", required=False), horn,
                                       float(max(band_frequencies(band))))
     checks, check_model = read_checks(read_table(raw, "checks", required=False))
+    feed = read_feed(read_table(raw, "feed", required=False))
     sweep = read_sweep(read_table(raw, "sweep", required=False), horn, fdtd_fields,
                        _centre_frequency(band_frequencies(band)))
     plausibility_warnings = _plausibility(horn, band, fdtd_fields, checks, sweep)
@@ -99,7 +101,7 @@ def _validated_fields(path, raw, tier, cells_override):
                 + (grid_warnings(horn, frequencies, sweep.dims, sweep.cells_per_wavelength,
                                  "sweep.cells_per_wavelength") if sweep and sweep.cells_per_wavelength else [])]
     return dict(path=path, name=path.stem, title=title, horn=horn, frequencies=frequencies,
-                fdtd=fdtd, checks=checks, check_model=check_model, sweep=sweep, tiers=tiers,
+                fdtd=fdtd, checks=checks, check_model=check_model, sweep=sweep, tiers=tiers, feed=feed,
                 sha256=_variant_sha256(raw, tier, cells_override),
                 computation_sha256=computation_sha256(raw, tier, cells_override),
                 warnings=tuple(dict.fromkeys(warnings)), raw=raw, tier=tier,

@@ -53,6 +53,8 @@ class Case:
         compares baselines by.
     cells_override : tuple or None
         The ladder set by :meth:`with_cells`, None when the case's own ladder is used.
+    feed : FeedSpec
+        The ``[feed]`` table (``case.feed_table``): reflector half-angle or f/D, beam levels.
     wall : horn_table.WallSpec or None
         The walls' metal and feed guide length (None: perfect conductors, gain = directivity).
     range_distances : tuple of float
@@ -78,6 +80,7 @@ class Case:
     raw: dict
     tier: str = None
     cells_override: tuple = None
+    feed: object = None
     wall: object = None
     range_distances: tuple = ()
     tolerance: object = None

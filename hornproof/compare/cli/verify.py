@@ -10,6 +10,7 @@ from ...errors import InputError
 from ..jobs.refine import RefinementGoal
 from ..jobs.verify import default_out_dir, verify_case
 from ..numerics.figures import METRICS
+from ..report.feed_section import feed_lines
 from ..report.format import MISSING_VALUE
 from ..output.folders import check_output_folder, claimed_output_folder, under_result_root
 from ..output.terminal import emit_result, safety_lines
@@ -100,6 +101,7 @@ def format_verdicts(summary):
                      f"{_number(row['value'])} {_number(row['uncertainty'], 7, confident=row.get('uncertainty_confident', True))} "
                      f"{'':>7} {row['limit']:6.2f}  {row.get('ladder') or '':<18} {row['verdict']}")
     lines += horn_3d_lines(summary)  # a 2D case: the 3D horn's aperture models in dBi
+    lines += feed_lines(summary)  # phase centres, 45° cross-polar peak, beamwidths, efficiencies
     lines += range_shop_lines(summary)  # wall loss, finite-range gain, tolerances (if asked)
     lines.append(f"  overall: {comparison['overall']}")
     reasons = comparison.get("unresolved_reasons") or {}

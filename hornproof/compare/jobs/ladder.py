@@ -11,18 +11,19 @@ import time
 import numpy as np
 
 from ...sim import run as fdtd_run
-from ...sim.estimate import available_memory_bytes, estimate_for_layout
+from ...sim.estimate import available_memory_bytes, estimate_for_layout, far_field_frequency_cost
 from ...sim.layout import plan_layout
 from ...sim.progress import ProgressReporter
 from ..numerics.convergence import grid_convergence
 from ..numerics.figures import directivity_key
 from ..output.json_document import jsonable
+from .feed_figures import FEED_LADDER_FIGURES
 from .messages import say
 
 #: FDTD figures whose ladder gets a convergence estimate
 LADDER_FIGURES = ("directivity_dbi", "directivity_2d_db", "gain_dbi", "realized_gain_dbi", "gain_2d_db",
                   "realized_gain_2d_db", "hpbw_h_deg",
-                  "hpbw_e_deg", "first_null_h_deg", "first_null_e_deg", "sll_h_db", "sll_e_db", "s11_db")
+                  "hpbw_e_deg", "first_null_h_deg", "first_null_e_deg", "sll_h_db", "sll_e_db", "s11_db") + FEED_LADDER_FIGURES
 
 #: staircased PEC walls converge at about first order (observed in development runs of this
 #: project, DEVELOPERS.md "Modelling notes"); used where the ladder cannot give an observed
@@ -45,8 +46,11 @@ def resource_line(case, cells_per_wavelength):
     estimate = estimate_for_layout(layout, len(case.frequencies), use_symmetry=case.fdtd.use_symmetry)
     free = available_memory_bytes()
     free_text = "" if free is None else f" of {free / 2**30:.1f} GiB available"
+    step, fitting = far_field_frequency_cost(layout, len(case.frequencies), case.fdtd.use_symmetry, free)
+    fit_text = "" if fitting is None else f", up to {fitting:,} would fit"
     return (f"estimate: {estimate.cells:,} grid cells stored, peak memory about "
-            f"{estimate.peak_memory_bytes / 2**20:,.0f} MiB{free_text}")
+            f"{estimate.peak_memory_bytes / 2**20:,.0f} MiB{free_text}; each further far-field (gain) "
+            f"frequency about {step / 2**20:.1f} MiB{fit_text}")
 
 
 def progress_reporter(case, cells_per_wavelength):

@@ -17,13 +17,22 @@ from .messages import is_writer
 
 
 def write_result_files(folder, case, summary, sim_results, ladder):
-    """Write fields.h5 and s11.s1p of the finest grid, and result.json, into ``folder``."""
+    """Write fields.h5 and s11.s1p of the finest grid and result.json into ``folder``. s11.s1p holds the dense band (``sim.feed.DENSE_BAND_POINTS`` frequencies of the
+    same run) when the run has one, else the band frequencies."""
     finest = sim_results[int(np.argmax(ladder))]
-    write_fields_h5(folder / "fields.h5", finest, case_sha256=case.sha256, case_name=case.name)
-    s11 = np.asarray(finest.extra["s11_real"]) + 1j * np.asarray(finest.extra["s11_imag"])
-    write_s1p(folder / "s11.s1p", case.frequencies, s11, case_name=case.name,
-              solver_version=str(finest.run.get("meep_version", "")),
-              wave_impedances=te10_wave_impedance(case.frequencies, case.horn.guide_a))
+    write_fields_h5(folder / "fields.h5", finest, case_sha256=case.sha256, case_name=case.name,
+                    flare_length_m=float(case.horn.flare_length))
+    dense = getattr(finest, "dense_band", None)
+    if dense is not None:
+        frequencies, s11 = dense["frequencies_hz"], dense["s11"]
+        comments = [f"dense band: {len(frequencies)} frequencies from the same run's guide monitor"]
+    else:
+        frequencies = case.frequencies
+        s11 = np.asarray(finest.extra["s11_real"]) + 1j * np.asarray(finest.extra["s11_imag"])
+        comments = []
+    write_s1p(folder / "s11.s1p", frequencies, s11, case_name=case.name,
+              solver_version=str(finest.run.get("meep_version", "")), comments=comments,
+              wave_impedances=te10_wave_impedance(frequencies, case.horn.guide_a))
     write_result_json(folder / "result.json", summary)
 
 

@@ -20,9 +20,11 @@ from ..numerics.figures import CHECK_METRICS, METRICS, directivity_key
 from ..numerics.metrics import interpolate_cut, pattern_error
 from ..numerics.power_balance import POWER_BALANCE_FIGURES, with_power_balance
 from ..numerics.verdict import comparison_block, judge
+from ..output.csv_tables import write_csv_tables
 from ..output.folders import publish_folder
 from ..output.json_document import jsonable
 from .ladder import FORMAL_ORDER, fdtd_figures, ladder_convergence, run_fdtd_ladder, solver_block, solver_warnings
+from .feed_figures import add_feed_figures, aperture_cut_fields, feed_block
 from .grid_plan import combine_uncertainty, fitted_ladder, geometry_residual
 from .messages import is_writer, say
 from .predict import predict_case
@@ -280,13 +282,24 @@ def evaluate_case(case, *, force=False, ladder=None, progress=None, goal=None, l
             lambda rungs: run_fdtd_ladder(case, rungs, force=force, progress=progress, log=log), log)
         log(f"hornproof: {stop_reason}")
         ladder = [fit.cells_per_wavelength for fit in fits]
+    # feed figures (phase centres, 45° cut, beamwidths, efficiencies) into every model and rung
+    # before the ladder's convergence, so the FDTD values get their uncertainty like the rest
+    add_feed_figures(case, summary["models"], sim_results, summary.get("aperture_equivalent", "huygens"))
     summary["models"]["fdtd"], convergence = fdtd_model_block(case, sim_results, ladder,
                                                               geometry_residual(case, fits))
     add_range_and_shop(case, summary, sim_results, ladder)  # wall loss, finite range, tolerances: only if the case asks
     summary["comparison"] = comparison(case, summary["models"], models, sim_results, ladder, convergence)
+    feed = feed_block(case, summary, summary.get("aperture_equivalent", "huygens"))
+    if feed is not None:
+        summary["feed"] = feed
     summary["solver"] = solver_block(case, sim_results, ladder, time.monotonic() - started)
     summary["solver"]["nominal_cells_per_wavelength"] = [fit.nominal_cells_per_wavelength for fit in fits]
     summary["solver"]["grid_fit"] = [fit.to_dict() for fit in fits]
+    dense = getattr(sim_results[int(np.argmax(ladder))], "dense_band", None)
+    if dense is not None:
+        summary["solver"]["dense_band"] = {
+            "points": len(dense["frequencies_hz"]), "read_on": "guide axis line, finest grid",
+            "max_band_check_abs": float(np.max(dense["band_check_abs"]))}
     if goal is not None:
         summary["solver"]["refinement"] = {"target_uncertainty_db": goal.target_db,
                                            "budget_seconds": goal.budget_seconds, "stopped": stop_reason}
@@ -326,7 +339,8 @@ def verify_case(case, out_dir=None, *, force=False, ladder=None, progress=None, 
     try:
         image = draw_model_image(case, max(ladder), Path(out_dir))
         if is_writer():
-            publish(out_dir, case, summary, models, sim_results, ladder, convergence, image)
+            feed_fields = aperture_cut_fields(case, summary.get("aperture_equivalent", "huygens"))
+            publish(out_dir, case, summary, models, sim_results, ladder, convergence, image, feed_fields)
     finally:
         if image is not None:
             Path(image).unlink(missing_ok=True)  # moved into the folder when published
@@ -334,7 +348,7 @@ def verify_case(case, out_dir=None, *, force=False, ladder=None, progress=None, 
     return summary
 
 
-def publish(out_dir, case, summary, models, sim_results, ladder, convergence, image=None):
+def publish(out_dir, case, summary, models, sim_results, ladder, convergence, image=None, feed_fields=None):
     """Write every output into a staging folder, then swap it into place (``publish_folder``)."""
     # lazy: the report builder loads its templates and matplotlib (slow) only when a folder is written
     from ..report.html import build_report
@@ -343,6 +357,7 @@ def publish(out_dir, case, summary, models, sim_results, ladder, convergence, im
 
     def write(staging):
         write_result_files(staging, case, summary, sim_results, ladder)
+        write_csv_tables(staging, summary, sim_results[int(np.argmax(ladder))], models, feed_fields)
         write_verify_plots(staging, case, summary, models, sim_results, ladder, convergence)
         write_tolerance_plot(staging, summary)
         move_model_image(image, staging)

@@ -22,7 +22,7 @@ class Figure:
     label : str
         Trade words for people (tables, plots, reports).
     unit : str
-        ``"dB"`` or ``"deg"``.
+        ``"dB"``, ``"deg"``, ``"mm"`` or ``"%"``.
     tolerance_keys : tuple of str
         ``[checks]`` keys that set its tolerance, first match wins (regress).
     """
@@ -50,6 +50,23 @@ FIGURES = {figure.key: figure for figure in (
     Figure("sll_h_db", "sll_h_db", "Sidelobe level, H-plane", "dB", ("sll_h_db", "sll_db")),
     Figure("sll_e_db", "sll_e_db", "Sidelobe level, E-plane", "dB", ("sll_e_db", "sll_db")),
     Figure("s11_db", None, "S11 (return loss)", "dB", ("s11_db",)),
+    # feed figures (compare/jobs/feed_figures.py): 3D models only
+    Figure("phase_centre_h_mm", "phase_centre_h_mm", "Phase centre behind aperture, H-plane", "mm",
+           ("phase_centre_h_mm", "phase_centre_mm")),
+    Figure("phase_centre_e_mm", "phase_centre_e_mm", "Phase centre behind aperture, E-plane", "mm",
+           ("phase_centre_e_mm", "phase_centre_mm")),
+    Figure("beamwidth_10db_h_deg", "beamwidth_10db_h_deg", "-10 dB beamwidth, H-plane", "deg",
+           ("beamwidth_10db_h_deg", "beamwidth_10db_deg")),
+    Figure("beamwidth_10db_e_deg", "beamwidth_10db_e_deg", "-10 dB beamwidth, E-plane", "deg",
+           ("beamwidth_10db_e_deg", "beamwidth_10db_deg")),
+    Figure("cross_polar_45_db", "cross_polar_45_db", "Peak cross-polar level, 45° cut", "dB",
+           ("cross_polar_45_db", "cross_polar_db")),
+    Figure("edge_taper_h_db", "edge_taper_h_db", "Edge taper at the rim, H-plane", "dB",
+           ("edge_taper_h_db", "edge_taper_db")),
+    Figure("edge_taper_e_db", "edge_taper_e_db", "Edge taper at the rim, E-plane", "dB",
+           ("edge_taper_e_db", "edge_taper_db")),
+    Figure("reflector_efficiency_pct", "reflector_efficiency_pct", "Reflector aperture efficiency", "%",
+           ("reflector_efficiency_pct", "efficiency_pct")),
 )}
 
 #: comparison metric -> figure (the ``comparison`` block's keys)
@@ -62,9 +79,15 @@ CHECK_METRICS = {
     "hpbw_deg": ("hpbw_h_deg", "hpbw_e_deg"),
     "first_null_deg": ("first_null_h_deg", "first_null_e_deg"),
     "sll_db": ("sll_h_db", "sll_e_db"),
+    "phase_centre_mm": ("phase_centre_h_mm", "phase_centre_e_mm"),
+    "beamwidth_10db_deg": ("beamwidth_10db_h_deg", "beamwidth_10db_e_deg"),
+    "cross_polar_db": ("cross_polar_45_db",),
+    "edge_taper_db": ("edge_taper_h_db", "edge_taper_e_db"),
+    "efficiency_pct": ("reflector_efficiency_pct",),
 }
 
-#: every ``[checks]`` tolerance key a case file may hold (dB for *_db, degrees for *_deg);
+#: every ``[checks]`` tolerance key a case file may hold (dB for *_db, degrees for *_deg, mm for
+#: *_mm, percentage points for *_pct);
 #: pattern_rms_db and s11_db are judged outside the figure comparison
 CHECK_TOLERANCE_KEYS = tuple(CHECK_METRICS) + ("pattern_rms_db", "s11_db")
 

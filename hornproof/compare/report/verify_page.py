@@ -15,6 +15,7 @@ from . import plots
 from .range_shop_page import range_shop_captions, range_shop_context
 from .range_shop_plots import write_tolerance_plot
 from .verify_plots import confident_flags
+from .feed_section import feed_context
 from .format import CHECK_NAMES, MISSING_VALUE, number, quantity_rows, unit_decimals
 
 #: verdict words shown to people (DISAGREES in capitals so it cannot be missed)
@@ -189,6 +190,11 @@ def figure_captions(result):
     captions["s11"] = ("Input reflection |S11| (dB) at the feed guide, FDTD model, with the grid ladder's "
                        "uncertainty as bars where the ladder gave one (S11 converges worst of all figures).")
     captions["model"] = "The modelled metal on the finest grid, as the FDTD solver sees it."
+    for plane, letter in (("h", "H"), ("e", "E")):
+        captions[f"phase_centre_{plane}"] = (
+            f"Phase centre of the {letter}-plane over the band, mm behind the aperture plane (towards the "
+            "throat): least-squares fit of the co-polar far-field phase over the main lobe; FDTD with its "
+            "ladder uncertainty (hollow markers and dashed bars: not confident).")
     convergence = (result.get("comparison") or {}).get("convergence") or {}
     estimates = convergence.get("estimates") or []
     if f_ghz and len(estimates) == len(f_ghz):
@@ -226,6 +232,7 @@ def verify_context(result):
                                  if key not in SOLVER_KEYS_IN_OWN_TABLES}),
         "grid_fit": grid_fit_table(result),
         "refinement": refinement_text(result),
+        "feed": feed_context(result),
         **range_shop_context(result),  # wall loss, finite range, tolerances (templates/range_shop.html.j2)
     }
 

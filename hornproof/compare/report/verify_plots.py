@@ -66,7 +66,27 @@ def write_verify_plots(folder, case, summary, models, sim_results, ladder, conve
                   for row in summary["comparison"]["convergence"]["values"]]
         plots.plot_convergence_ladder(ladder, column, folder / "convergence_ladder", estimate=estimates[key][centre],
                                       quantity=quantity, unit=unit, frequency=freqs[centre], case_title=title)
+    write_phase_centre_plots(folder, summary, estimates, title)
     if fdtd.get("s11_db") is not None:
         plots.plot_s11(freqs, [np.nan if v is None else v for v in fdtd["s11_db"]], folder / "s11", case_title=title,
                        uncertainty_db=[np.nan if v is None else v
                                        for v in (fdtd.get("uncertainty") or {}).get("s11_db", [None] * len(freqs))])
+
+
+def write_phase_centre_plots(folder, summary, estimates, title):
+    """phase_centre_h / phase_centre_e: each plane's phase centre (mm behind the aperture) over
+    the band, both aperture models and FDTD with its ladder uncertainty (3D cases with feed
+    figures only)."""
+    freqs = np.asarray(summary["frequencies_ghz"], dtype=float) * 1e9
+    models = summary["models"]
+    uncertainty = models["fdtd"].get("uncertainty") or {}
+    for plane, letter in (("h", "H"), ("e", "E")):
+        key = f"phase_centre_{plane}_mm"
+        if models["fdtd"].get(key) is None:
+            continue
+        column = lambda values: [np.nan if v is None else v for v in values]  # noqa: E731
+        plots.plot_directivity_vs_frequency(
+            freqs, column(models["closed_form"][key]), column(models["exact_phase"][key]), column(models["fdtd"][key]),
+            folder / f"phase_centre_{plane}", fdtd_uncertainty_db=column(uncertainty.get(key, [None] * len(freqs))),
+            fdtd_confident=confident_flags(estimates.get(key), len(freqs)), case_title=title, unit="mm",
+            quantity=f"Phase centre behind aperture, {letter}-plane")
