@@ -220,7 +220,11 @@ def test_design_options_with_hostile_numbers_are_one_line():
 ])
 def test_design_guide_that_cannot_carry_te10_is_one_line(argv, words):
     code, _, err = _cli("design", "flare", "--frequency-ghz", "10", *argv)
-    assert code == 2 and words in _error_line(err)
+    # 1e-308 is a subnormal double: once Meep is loaded in the process its libraries run the CPU
+    # with denormals read as zero, and the same input is then refused as a zero-sized guide
+    # (seen when this test ran after full-wave tests); either refusal is one line
+    allowed = (words, "guide sizes must be positive") if "1e-308" in argv else (words,)
+    assert code == 2 and any(w in _error_line(err) for w in allowed), err
 
 
 def test_design_beyond_the_limits_is_shown_with_a_warning_but_never_written_as_a_case(tmp_path):
