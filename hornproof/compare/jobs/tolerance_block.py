@@ -1,8 +1,9 @@
 """The ``tolerance`` block of a result: how machining tolerances spread the horn's figures.
 
 Runs :func:`hornproof.analytic.tolerance.tolerance_study` on the case's 3D horn with the
-``[tolerance]`` table's sizes, model, sample count and seed. Figures: directivity and the two
-half-power beamwidths of the chosen aperture model (other figure functions plug in through
+``[tolerance]`` table's sizes, model, sample count and seed. Figures: directivity, the two
+half-power beamwidths and the two phase centres (:mod:`.feed_figures`, the same least-squares
+fit as the feed section) of the chosen aperture model (other figure functions plug in through
 ``figures``). S11 has no aperture-model counterpart, and full-wave runs at the corners are not
 offered (``NOT_COVERED`` says why: the grids cannot resolve a tenth of a millimetre).
 """
@@ -10,10 +11,13 @@ offered (``NOT_COVERED`` says why: the grids cannot resolve a tenth of a millime
 import numpy as np
 
 from ...analytic.tolerance import DIMENSIONS, aperture_model_figures, tolerance_study
+from .feed_figures import aperture_feed_field, feed_figures
 
 #: figure -> (label, unit) for tables and plots
 FIGURE_LABELS = {"directivity_dbi": ("Directivity", "dBi"), "hpbw_h_deg": ("HPBW, H-plane", "deg"),
-                 "hpbw_e_deg": ("HPBW, E-plane", "deg")}
+                 "hpbw_e_deg": ("HPBW, E-plane", "deg"),
+                 "phase_centre_h_mm": ("Phase centre, H-plane", "mm"),
+                 "phase_centre_e_mm": ("Phase centre, E-plane", "mm")}  # mm behind the aperture plane
 NOT_COVERED = ("S11: the aperture models have no S11, and full-wave runs at the worst corners are not "
                "offered: a machining tolerance of a tenth of a millimetre is a tenth of a cell or less on "
                "hornproof's grids (about 1 mm at 28 cells per wavelength at 10 GHz), below the grid fit's "
@@ -21,12 +25,23 @@ NOT_COVERED = ("S11: the aperture models have no S11, and full-wave runs at the 
                "tolerance's effect; the corners are listed for a finer model or a measurement")
 
 
+def phase_centre_figures(model):
+    """Figure functions ``phase_centre_h_mm`` / ``phase_centre_e_mm`` of an aperture model, in the
+    form :func:`hornproof.analytic.tolerance.tolerance_study` takes (mm behind the aperture)."""
+    def figure(plane):
+        def phase_centre(horn, frequencies):
+            field = aperture_feed_field(horn, frequencies, model, sphere=False)
+            return feed_figures(field, frequencies, horn)[f"phase_centre_{plane}_mm"]
+        return phase_centre
+    return {"phase_centre_h_mm": figure("h"), "phase_centre_e_mm": figure("e")}
+
+
 def tolerance_block(case, figures=None):
     """The ``tolerance`` block (JSON-ready), or None when the case has no ``[tolerance]``."""
     spec = case.tolerance
     if spec is None:
         return None
-    figures = figures or aperture_model_figures(spec.model)
+    figures = figures or {**aperture_model_figures(spec.model), **phase_centre_figures(spec.model)}
     study = tolerance_study(case.horn, case.frequencies, spec.tolerances, figures=figures,
                             model=spec.model, samples=spec.samples, seed=spec.seed)
     out = {}

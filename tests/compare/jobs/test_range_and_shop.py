@@ -96,7 +96,11 @@ def test_blocks_of_a_predicted_summary(tmp_path):
         np.testing.assert_allclose(row["closed_form_gain_dbi"], by_hand, rtol=1e-10)
         assert all(c > 0 for c in row["correction_db"])
     study = summary["tolerance"]
-    assert set(study["figures"]) == {"directivity_dbi", "hpbw_h_deg", "hpbw_e_deg"}
+    assert set(study["figures"]) == {"directivity_dbi", "hpbw_h_deg", "hpbw_e_deg", "phase_centre_h_mm",
+                                     "phase_centre_e_mm"}
+    # the phase centre moves back as B grows (a larger aperture, same length: the apex moves away);
+    # sign only: the size is the model's (aperture-model phase-centre fit, jobs/feed_figures.py)
+    assert all(v > 0 for v in study["figures"]["phase_centre_e_mm"]["sensitivity_per_mm"]["B"])
     assert study["samples"] == 60 and "S11" in study["not_covered"]
     text = format_verdicts_like(summary)
     assert "Wall loss: brass" in text and "Finite-range gain" in text and "Tolerance study" in text
