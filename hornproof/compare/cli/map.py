@@ -3,15 +3,12 @@ and its table for people. The cost of every FDTD point and of the whole map is p
 anything runs; beyond ``--budget-hours`` the map is refused unless ``--force``."""
 
 import argparse
-from pathlib import Path
 
-from ...errors import InputError
 from ..case.casefile import load_case
 from ..jobs.map import run_map
 from ..jobs.map_estimate import DEFAULT_BUDGET_HOURS
 from ..jobs.messages import is_writer, say
-from ..output.folders import check_output_folder, claimed_output_folder, under_result_root
-from ..output.ownership import remove_unused_folder, write_marker
+from ..output.folders import resumable_output_folder
 from ..output.terminal import emit_result, safety_lines
 from ..report.format import MISSING_VALUE
 
@@ -87,24 +84,10 @@ MAP_ENTRIES = ("points", "map.json", "report.html") + tuple(
 
 def run(args):
     case = load_case(args.case)
-    option = "--out" if args.out is not None else "the default map folder"
-    out_dir = check_output_folder(Path(args.out) if args.out is not None else Path("results") / f"{case.name}-map",
-                                  option, kind="map", create_parents=args.out is None or under_result_root(args.out))
-    writer = is_writer()
-    with claimed_output_folder(out_dir, option, "map", hold=writer, tell=say):
-        created = writer and not out_dir.exists()
-        if writer:  # marked before the first point is cached, so a killed map can resume here
-            out_dir.mkdir(exist_ok=True)
-            write_marker(out_dir, "map", extra_entries=MAP_ENTRIES)
-        try:
-            document = run_map(case, out_dir, analytic_only=args.analytic_only, force=args.force,
-                               budget_hours=args.budget_hours)
-        except InputError:  # refused before anything ran (e.g. over budget): leave nothing behind
-            if created:
-                remove_unused_folder(out_dir)
-            raise
-        if writer:
-            write_marker(out_dir, "map", extra_entries=MAP_ENTRIES)
+    with resumable_output_folder(args.out, "--out", "map", MAP_ENTRIES, default=f"results/{case.name}-map",
+                                 writer=is_writer(), tell=say) as out_dir:
+        document = run_map(case, out_dir, analytic_only=args.analytic_only, force=args.force,
+                           budget_hours=args.budget_hours)
     if is_writer():
         emit_result(args.json, document, format_map(document), f"report: {out_dir / 'report.html'}")
     return 0

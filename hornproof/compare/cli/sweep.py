@@ -1,14 +1,12 @@
 """``hornproof sweep CASE``: model error against one horn parameter
 (:mod:`hornproof.compare.jobs.sweep`) and its table."""
 
-from pathlib import Path
 
 from ..case.casefile import load_case
 from ..jobs.messages import is_writer, say
 from ..jobs.sweep import run_sweep
 from ..report.format import MISSING_VALUE, breakdown_words, step_decimals
-from ..output.folders import check_output_folder, claimed_output_folder, under_result_root
-from ..output.ownership import write_marker
+from ..output.folders import resumable_output_folder
 from ..output.terminal import emit_result, safety_lines
 from .arguments import cells_per_wavelength_list
 
@@ -103,18 +101,10 @@ def format_sweep(document):
 
 def run(args):
     case = load_case(args.case)
-    option = "--out" if args.out is not None else "the default sweep folder"
-    out_dir = check_output_folder(Path(args.out) if args.out is not None else Path("results") / f"{case.name}-sweep",
-                                  option, kind="sweep", create_parents=args.out is None or under_result_root(args.out))
-    writer = is_writer()
-    with claimed_output_folder(out_dir, option, "sweep", hold=writer, tell=say):
-        if writer:  # marked before the first point is cached, so a killed sweep can resume here
-            out_dir.mkdir(exist_ok=True)
-            write_marker(out_dir, "sweep", extra_entries=SWEEP_ENTRIES)
+    with resumable_output_folder(args.out, "--out", "sweep", SWEEP_ENTRIES, default=f"results/{case.name}-sweep",
+                                 writer=is_writer(), tell=say) as out_dir:
         document = run_sweep(case, out_dir, dims=args.dims, ladder=args.cells_per_wavelength,
                              analytic_only=args.analytic_only, force=args.force)
-        if writer:
-            write_marker(out_dir, "sweep", extra_entries=SWEEP_ENTRIES)
     if is_writer():
         emit_result(args.json, document, format_sweep(document), f"report: {out_dir / 'report.html'}")
     return 0

@@ -16,7 +16,8 @@ from pathlib import Path
 from ...atomic import replace_folder
 from ...errors import InputError
 from .output_lock import output_lock
-from .ownership import STAGING_SENTINEL, ownership_problem, remove_leftovers, stale_leftovers, write_marker
+from .ownership import (STAGING_SENTINEL, ownership_problem, remove_leftovers, remove_unused_folder, stale_leftovers,
+                        write_marker)
 
 
 def path_text(path):
@@ -216,3 +217,31 @@ def claimed_output_folder(out_dir, option, kind, *, hold=True, tell=None):
             if tell is not None:
                 tell(f"hornproof: removed a leftover of a killed run: {path_text(removed)}")
         yield Path(out_dir)
+
+
+@contextlib.contextmanager
+def resumable_output_folder(path, option, kind, entries, *, default, writer=True, tell=None):
+    """The output folder of a resumable command (``sweep``, ``map``): checked
+    (:func:`check_output_folder`), claimed (:func:`claimed_output_folder`) and marked with its
+    ``entries`` before the run, so a killed run's folder is still recognised as its own; marked
+    again after it. A run refused with an ``InputError`` before it wrote anything removes the
+    folder it created.
+
+    ``path`` is the user's ``--out`` (None: ``default``, under the result root).
+    """
+    option = option if path is not None else f"the default {kind} folder"
+    out_dir = check_output_folder(Path(path) if path is not None else Path(default), option, kind=kind,
+                                  create_parents=path is None or under_result_root(path))
+    with claimed_output_folder(out_dir, option, kind, hold=writer, tell=tell):
+        created = writer and not out_dir.exists()
+        if writer:
+            out_dir.mkdir(exist_ok=True)
+            write_marker(out_dir, kind, extra_entries=entries)
+        try:
+            yield out_dir
+        except InputError:
+            if created:
+                remove_unused_folder(out_dir)
+            raise
+        if writer:
+            write_marker(out_dir, kind, extra_entries=entries)
