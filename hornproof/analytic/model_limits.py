@@ -7,10 +7,10 @@ Two different limits:
 * the **aperture models themselves** (a TE10 cosine field over the aperture, no edge or wall
   currents) — not predictable in closed form; hornproof's own full-wave runs show where they
   miss. For a sectoral horn whose unflared opening is narrow (the WR-90 guide height, 0.34
-  wavelength at 10 GHz), 3D FDTD gave aperture-model errors of about −1.3 dB at 20° and
-  −2.9 dB at 40° flare half-angle (measured in this project, ARCHITECTURE.md "modelling
-  pitfalls", confirmed by the shipped 3D sweep, cases/sweep-h-flare-3d.toml); short horns with
-  wide flares are where both limits bite.
+  wavelength at 10 GHz), 3D FDTD gave aperture-model errors of −1.4 to −1.6 dB at 10–25°,
+  −2.3 dB at 40° and −3.6 dB at 45° flare half-angle (the shipped 3D sweep,
+  cases/sweep-h-flare-3d.toml; ARCHITECTURE.md's audit figures −1.3 / −2.9 dB at 20 / 40° agree);
+  short horns with wide flares are where both limits bite.
 
 :func:`model_limit_warnings` turns these into one-line warnings for the designer.
 """
@@ -21,7 +21,7 @@ from . import closed_form, exact_phase
 from ..units import wavelength
 
 #: flare half-angle (deg) beyond which a horn is "wide" here: the 3D aperture-model error of the
-#: project's WR-90 sweep was −2.9 dB at 40° (module docstring)
+#: project's WR-90 sweep was −2.3 dB at 40° and −3.6 dB at 45° (module docstring)
 WIDE_FLARE_DEG = 40.0
 
 #: an unflared opening narrower than this (wavelengths) is outside the aperture models' reach
@@ -67,11 +67,11 @@ def model_limit_warnings(horn, frequency, tolerance_db=0.3):
               if not flares and size / wl < NARROW_OPENING_WAVELENGTHS]
     if widest > WIDE_FLARE_DEG:
         warnings.append(f"wide flare: half-angle {widest:.1f} deg (S = {s:.2f}, T = {t:.2f} wavelengths); in "
-                        f"hornproof's 3D runs the aperture models missed full-wave by about 3 dB at 40 deg "
-                        f"on a narrow-opening horn: check this design with 'hornproof verify'")
+                        f"hornproof's 3D runs of a narrow-opening horn the aperture models missed full-wave by "
+                        f"2.3 dB at 40 deg and 3.6 dB at 45 deg: check this design with 'hornproof verify'")
     for name, size_wl in narrow:
         warnings.append(f"narrow unflared opening: {name} = {size_wl:.2f} wavelength; the aperture models "
                         f"ignore its edges, and in hornproof's 3D runs of 60 mm WR-90 horns (0.34 wavelength, "
-                        f"10–50 deg flare) they missed full-wave by 1–3 dB: the closed-form figures are a first "
+                        f"10–50 deg flare) they missed full-wave by 1.4–3.6 dB: the closed-form figures are a first "
                         f"guess, check with 'hornproof verify'")
     return warnings

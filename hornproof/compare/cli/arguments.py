@@ -9,11 +9,11 @@ from ...limits import MAX_CELLS_PER_WAVELENGTH, MIN_CELLS_PER_WAVELENGTH
 def add_fdtd_run_arguments(parser, *, cells_metavar, cells_help, out_help):
     """The arguments of a command that runs the FDTD model: the case, its grids, the output
     folder, ``--json`` and ``--force``."""
-    parser.add_argument("case")
+    parser.add_argument("case", help="case file (.toml)")
     parser.add_argument("--cells-per-wavelength", type=cells_per_wavelength_list, metavar=cells_metavar,
                         help=cells_help)
     parser.add_argument("--out", metavar="DIR", help=out_help)
-    parser.add_argument("--json", action="store_true")
+    parser.add_argument("--json", action="store_true", help="print the hornproof.result/1 summary on stdout")
     parser.add_argument("--force", action="store_true", help="run even if the estimate exceeds free memory")
 
 

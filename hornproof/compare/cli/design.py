@@ -51,7 +51,7 @@ def setup_arguments(parser):
                        help="model whose directivity is optimised or matched (default closed_form)")
         p.add_argument("--wall-mm", type=float, default=1.0, help="wall thickness for --write-case, mm")
         p.add_argument("--write-case", metavar="FILE", help="write the designed horn as a case file")
-        p.add_argument("--json", action="store_true")
+        p.add_argument("--json", action="store_true", help="print the hornproof.design/1 summary on stdout")
     g.add_argument("--phase-errors", default="rule",
                    help="'rule' (S = 3/8, T = 1/4), 'optimum' (0.3965, 0.2624) or 'S,T' in wavelengths")
 

@@ -36,8 +36,9 @@ def setup_arguments(parser):
                              "sweep's cells_per_wavelength, else each point's default ladder; three or "
                              "more rungs can give a confident uncertainty, fewer never do)")
     parser.add_argument("--analytic-only", action="store_true", help="skip FDTD (both analytic models only)")
-    parser.add_argument("--json", action="store_true")
-    parser.add_argument("--force", action="store_true")
+    parser.add_argument("--json", action="store_true", help="print sweep.json on standard output")
+    parser.add_argument("--force", action="store_true",
+                        help="run every point even if its estimate exceeds free memory")
 
 
 def format_sweep(document):

@@ -34,7 +34,12 @@ def breakdown_rows(document):
             rows.append({"error": ERROR_NAMES[kind], "y": f"{number(row['y'], 1)} {y['unit']}",
                          "where": earliest if earliest == latest else f"from {earliest} to {latest}"})
     analytic = breakdown.get("phase_approximation") or []
-    for row in analytic[::max(1, len(analytic) // 6)]:
+    mapped = [float(v) for v in (y.get("values") or [])]
+    # the rows at the mapped values of the second parameter (the ones the terminal and the FDTD
+    # points use), else every sixth row of the dense analytic grid
+    chosen = [min(analytic, key=lambda row: abs(row["y"] - v)) for v in mapped] if analytic and mapped \
+        else analytic[::max(1, len(analytic) // 6)]
+    for row in chosen:
         rows.append({"error": ERROR_NAMES["phase_approximation"], "y": f"{number(row['y'], 1)} {y['unit']}",
                      "where": crossing_text(row["at"], x_unit) + " (analytic: no numerical uncertainty)"})
     return rows

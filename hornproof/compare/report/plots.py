@@ -281,7 +281,7 @@ def plot_convergence_ladder(cells_per_wavelength, values, path_stem, *, estimate
             first += " (" + ", ".join(shown) + ")"
         second = ""
         if np.isfinite(u):
-            second = f"uncertainty ± {u:.3g} {unit}"
+            second = f"ladder part of the uncertainty ± {u:.3g} {unit}"
             second += f", safety factor {fs:g}" if kind == "gci" and np.isfinite(fs) else " (spread bound)"
         status_line = first + ("\n" + second if second else "")
     ax.set_xlim(0.0, h.max() * 1.12)

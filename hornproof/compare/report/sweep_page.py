@@ -108,7 +108,9 @@ def sweep_context(sweep):
     return {
         "title": sweep.get("title") or sweep.get("case") or "hornproof sweep",
         "subtitle": f"Sweep of {label} · case {sweep.get('case', MISSING_VALUE)}",
-        "model_label": sweep.get("label") or MISSING_VALUE,
+        "model_label": (sweep.get("label") or MISSING_VALUE) if (sweep.get("models") or {}).get("fdtd")
+                       else "analytic models only (no FDTD run; the full-wave model would be the "
+                            + (sweep.get("label") or MISSING_VALUE) + ")",
         "principal_only": sweep.get("dims") == 2,
         "figure_label": figure.get("label", "Figure"), "figure_unit": figure.get("unit", ""),
         "frequency": number(sweep.get("frequency_ghz")), "tolerance": number(sweep.get("tolerance"), 2),
@@ -128,11 +130,18 @@ def sweep_context(sweep):
 
 def figure_captions(sweep):
     """Captions that say what each sweep figure draws."""
+    if not (sweep.get("models") or {}).get("fdtd"):
+        return {"error_vs_parameter": "Phase-approximation error (closed form − exact phase) against the swept "
+                                      "parameter on a dense analytic grid, the ± tolerance and its breakdown "
+                                      "(analytic models only: no FDTD was run).",
+                "directivity_vs_parameter": "The two analytic models against the swept parameter (dense grid) "
+                                            "and each one's peak (no FDTD was run)."}
     return {"error_vs_parameter": "Signed model errors against the swept parameter: FDTD points with their "
                                   "numerical uncertainty (hollow: not confident), the ± tolerance, and each "
                                   "error's breakdown interval (shaded; hatched where unresolved).",
             "directivity_vs_parameter": "The three models against the swept parameter (analytic models on a "
-                                        "dense grid), FDTD with its numerical uncertainty, and each model's peak.",
+                                        "dense grid), FDTD with its numerical uncertainty (hollow, dashed: not "
+                                        "confident), and each model's peak.",
             "aperture_error_3d_vs_2d": "The aperture-model error seen by the 3D model of the real horn and by "
                                        "the 2D principal-plane first look, and where the two part."}
 

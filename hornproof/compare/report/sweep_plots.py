@@ -123,11 +123,22 @@ def plot_directivity_vs_parameter(path_stem, document):
                     color=plots.MODEL_COLOURS[name], label=plots.MODEL_LABELS[name])
             ax.plot(x, y, "o", markersize=3.5, color=plots.MODEL_COLOURS[name])
             continue
-        ax.plot(x, y, "-o", markersize=4, color=plots.MODEL_COLOURS[name], label=plots.MODEL_LABELS[name])
+        colour = plots.MODEL_COLOURS[name]
+        ax.plot(x, y, "-", color=colour, label=plots.MODEL_LABELS[name])
         u = floats(document.get("fdtd_uncertainty"))
+        confident = floats(document.get("fdtd_confident_uncertainty"))
+        sure = np.isfinite(confident) if confident is not None else np.zeros(x.shape, bool)
         if u is not None and np.any(np.isfinite(u)):
-            ax.errorbar(x, y, yerr=np.where(np.isfinite(u), u, 0), fmt="none",
-                        ecolor=plots.MODEL_COLOURS[name], capsize=3, linewidth=1)
+            for mask, style in ((sure, "-"), (~sure, "--")):  # dashed: not a confident uncertainty
+                bars = ax.errorbar(x[mask], y[mask], yerr=np.where(np.isfinite(u), u, 0)[mask], fmt="none",
+                                   ecolor=colour, capsize=3, linewidth=1)
+                for line in bars[2]:
+                    line.set_linestyle(style)
+        ax.plot(x[sure], y[sure], "o", color=colour, markersize=4.5)
+        ax.plot(x[~sure], y[~sure], "o", markerfacecolor="white", markeredgecolor=colour, markersize=4.5)
+        if np.any(~sure):
+            ax.plot([], [], "o", markerfacecolor="white", markeredgecolor=colour,
+                    label="Hollow, dashed bar: no confident uncertainty (the ladder's bound or spread)")
     for name, best in (document.get("optimum") or {}).items():
         if not best or name not in plots.MODEL_COLOURS:
             continue

@@ -205,7 +205,9 @@ def figure_captions(result):
         if estimate.get("uncertainty") is not None:
             parts.append("the GCI band" if estimate.get("uncertainty_kind") == "gci"
                          else "a bound from the ladder spread (not an error estimate)")
-        captions["convergence_ladder"] = parts[0] + (", with " + " and ".join(parts[1:]) if parts[1:] else "") + "."
+        captions["convergence_ladder"] = (parts[0] + (", with " + " and ".join(parts[1:]) if parts[1:] else "")
+                                          + ". The band is the ladder's part only; the verdict table's uncertainty "
+                                          "adds the power-balance and grid-fit terms (root-sum-square).")
     captions.update(range_shop_captions(result))
     return captions
 
