@@ -206,13 +206,18 @@ directivity_db = 0.5
 """
 
 
+def _apex(value):
+    """An apex distance in mm, or "none (no flare)" for a plane that does not flare."""
+    return "none (no flare)" if value is None or value == float("inf") else f"{value:.2f} mm"
+
+
 def format_design(summary):
     g = summary["geometry"]
     lines = [f"{g['type']} horn for {summary['frequency_ghz']:g} GHz ({summary['model'].replace('_', ' ')} model)",
              f"  guide            {g['guide_a_mm']:.3f} x {g['guide_b_mm']:.3f} mm",
              f"  aperture A x B   {g['aperture_a_mm']:.2f} x {g['aperture_b_mm']:.2f} mm",
              f"  flare length     {g['flare_length_mm']:.2f} mm (axial, both planes)",
-             f"  apex distances   H {g['apex_h_mm'] or float('inf'):.2f} mm   E {g['apex_e_mm'] or float('inf'):.2f} mm",
+             f"  apex distances   H {_apex(g['apex_h_mm'])}   E {_apex(g['apex_e_mm'])}",
              f"  flare half-angle H {g['flare_half_angle_h_deg']:.2f} deg   E {g['flare_half_angle_e_deg']:.2f} deg",
              f"  peak phase error S {summary['phase_error_h_wl']:.3f}   T {summary['phase_error_e_wl']:.3f} wavelengths "
              f"({summary['phase_reference']} convention)",

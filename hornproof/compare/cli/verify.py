@@ -97,7 +97,8 @@ def format_verdicts(summary):
                          f"{row.get('ladder') or '':<18} {row['verdict']}")
     freqs = summary["frequencies_ghz"]
     for row in comparison.get("extra_checks", []):
-        lines.append(f"  {row['check']:<30} {freqs[row['frequency_index']]:7.3f} {'':>8} {'':>8} "
+        label = check_label(row["check"]) + (" (dB, limit)" if row["check"] == "s11_db" else " (dB)")
+        lines.append(f"  {label:<30} {freqs[row['frequency_index']]:7.3f} {'':>8} {'':>8} "
                      f"{_number(row['value'])} {_number(row['uncertainty'], 7, confident=row.get('uncertainty_confident', True))} "
                      f"{'':>7} {row['limit']:6.2f}  {row.get('ladder') or '':<18} {row['verdict']}")
     lines += horn_3d_lines(summary)  # a 2D case: the 3D horn's aperture models in dBi
