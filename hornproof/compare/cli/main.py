@@ -190,7 +190,8 @@ def refuse_repeated_options(parser, argv, command):
         if action is None:
             continue
         if action.dest in seen:
-            raise InputError(f"{name}: given twice (also as {seen[action.dest]}); give each option once")
+            also = "" if seen[action.dest] == name else f" (also as {seen[action.dest]})"
+            raise InputError(f"{name}: given twice{also}; give each option once")
         seen[action.dest] = name
 
 
