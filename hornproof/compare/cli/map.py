@@ -10,7 +10,7 @@ from ..jobs.map_estimate import DEFAULT_BUDGET_HOURS
 from ..jobs.messages import is_writer, say
 from ..output.folders import resumable_output_folder
 from ..output.terminal import emit_result, safety_lines
-from ..report.format import MISSING_VALUE
+from ..report.format import MISSING_VALUE, breakdown_words
 
 
 def budget_hours(text):
@@ -64,8 +64,7 @@ def format_map(document):
                      + (f" ({p['reason']})" if p.get("reason") else ""))
     for kind in ("aperture_model", "total"):
         for row in document["breakdown"].get(kind) or []:
-            earliest, latest = _crossing(row["earliest"], x["unit"]), _crossing(row["latest"], x["unit"])
-            where = earliest if earliest == latest else f"from {earliest} to {latest}"
+            where = breakdown_words(row, x["unit"])
             lines.append(f"  breakdown of the {kind.replace('_', ' ')} error at {y['label'].lower()} "
                          f"{row['y']:g} {y['unit']}: {where}")
     phase = document["breakdown"]["phase_approximation"]

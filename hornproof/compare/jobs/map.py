@@ -17,8 +17,9 @@ For the case's ``[map]`` (:class:`hornproof.compare.case.mapspec.MapSpec`):
 4. the **errors** at each FDTD point — phase approximation (closed form − exact phase),
    aperture model (exact phase − FDTD) and total (closed form − FDTD), the last two with the
    FDTD uncertainty — and their **breakdown intervals** along the x parameter for every y
-   value (:mod:`..numerics.map_breakdown`): from the first x where |error| + u exceeds the
-   tolerance to the first where |error| − u does.
+   value (:mod:`..numerics.breakdown`, the sweep's rules): from the first x where |error| plus
+   the confident uncertainty could exceed the tolerance to the first where |error| minus the
+   ladder's defensible bound surely does (*unresolved* when no point is sure).
 
 The map exits with status 3 only when every FDTD point failed (the document, with the failed
 points and their reasons, is written first).
@@ -36,7 +37,7 @@ from ...sim.grid_fit import default_ladder, flared_plane
 from ...sim.solver import meep_version
 from ...version import build_version
 from ..case.sweepspec import SWEEP_PARAMETERS
-from ..numerics.map_breakdown import breakdown_interval, first_crossing
+from ..numerics.breakdown import analytic_breakdown, breakdown_interval
 from ..numerics.metrics import band_centre_index
 from ..output.json_document import jsonable
 from ..output.map_json import MAP_SCHEMA, write_map_json
@@ -68,21 +69,26 @@ def _axis(name, values, dense):
 
 
 def _breakdowns(spec, analytic, points, tolerance, analytic_only):
-    """Breakdown intervals along x: the analytic phase-approximation error for every dense y,
-    the FDTD-based errors for every FDTD y."""
+    """Breakdown intervals along x (:func:`..numerics.breakdown.breakdown_interval`, the rules
+    of the sweep): the analytic phase-approximation error for every dense y, the FDTD-based
+    errors for every FDTD y."""
     out = {"phase_approximation": [
-        {"y": float(y), "at": first_crossing(analytic["x"], np.abs(row) - tolerance)}
+        {"y": float(y), "at": analytic_breakdown(analytic["x"], row, tolerance)["latest"]}
         for y, row in zip(analytic["y"], analytic["phase_approximation_error"])]}
     if analytic_only:
         return out
+
+    def column(row, key):
+        return [np.nan if p.get(key) is None else p[key] for p in row]
+
     for kind in ("aperture_model", "total"):
         rows = []
         for y in spec.y_values:
             row = sorted((p for p in points if p["y"] == y), key=lambda p: p["x"])
-            errors = [np.nan if p[f"{kind}_error"] is None else p[f"{kind}_error"] for p in row]
-            uncertainty = [np.nan if p["uncertainty"] is None else p["uncertainty"] for p in row]
-            earliest, latest = breakdown_interval([p["x"] for p in row], errors, uncertainty, tolerance)
-            rows.append({"y": float(y), "earliest": earliest, "latest": latest})
+            interval = breakdown_interval([p["x"] for p in row], column(row, f"{kind}_error"),
+                                          column(row, "confident_uncertainty"), column(row, "disagreement_bound"),
+                                          tolerance)
+            rows.append({"y": float(y), **interval})
         out[kind] = rows
     return out
 
@@ -104,6 +110,8 @@ def _point_record(x, y, horn, frequency, dims, outcome, centre, estimated):
                       total_error=None if fdtd is None else closed - fdtd,
                       cells_per_wavelength=figures.get("cells_per_wavelength"),
                       convergence_status=(figures.get("convergence_status") or [None] * (centre + 1))[centre],
+                      confident_uncertainty=(figures.get("confident_uncertainty") or [None] * (centre + 1))[centre],
+                      disagreement_bound=(figures.get("disagreement_bound") or [None] * (centre + 1))[centre],
                       seconds=sum(s or 0 for s in figures.get("seconds") or []))
     return record
 

@@ -42,6 +42,7 @@ from ...sim import run as fdtd_run
 from ...sim.grid_fit import fit_ladder, flared_plane
 from ...sim.solver import meep_version
 from ...version import build_version
+from ..numerics.confidence import confident_uncertainty, disagreement_bound
 from ..numerics.convergence import grid_convergence
 from ..numerics.figures import directivity_key
 from ..numerics.power_balance import power_balance_uncertainty_db, root_sum_square
@@ -156,6 +157,14 @@ def run_point(horn, frequencies, settings, ladder, force):
         point["geometry_residual"] = residual
         point["uncertainty"] = combine_uncertainty([None if not np.isfinite(u) else u for u in with_power], residual)
         point["convergence_status"] = [e.status for e in found]
+        # which of it may support "holds" (confident) or only "past the tolerance" (a bound), by
+        # verify's rules (numerics.confidence), each with the same non-ladder terms
+        extra = np.hypot(power_balance_uncertainty_db(point["power_balance_error"]),
+                         np.asarray([r or 0.0 for r in (residual or [0.0] * values.shape[1])], dtype=float))
+        point["confident_uncertainty"] = [None if c is None else float(np.hypot(c, x)) for c, x in
+                                          zip((confident_uncertainty(e.to_dict())[0] for e in found), extra)]
+        point["disagreement_bound"] = [None if b is None else float(np.hypot(b, x)) for b, x in
+                                       zip((disagreement_bound(e.to_dict()) for e in found), extra)]
     else:
         point["uncertainty"] = [np.nan] * values.shape[1]
         point["convergence_status"] = ["single"] * values.shape[1]

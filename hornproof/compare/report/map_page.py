@@ -5,7 +5,7 @@ and the page itself (``report.html`` beside ``map.json``; keys in
 from pathlib import Path
 
 from ..output.map_json import MAP_SCHEMA, read_map_json
-from .format import MISSING_VALUE, number, quantity_rows
+from .format import MISSING_VALUE, breakdown_words, number, quantity_rows
 from .html import write_report
 
 #: the three model errors, as the breakdown table names them
@@ -30,9 +30,8 @@ def breakdown_rows(document):
     breakdown = document.get("breakdown") or {}
     for kind in ("aperture_model", "total"):
         for row in breakdown.get(kind) or []:
-            earliest, latest = crossing_text(row["earliest"], x_unit), crossing_text(row["latest"], x_unit)
             rows.append({"error": ERROR_NAMES[kind], "y": f"{number(row['y'], 1)} {y['unit']}",
-                         "where": earliest if earliest == latest else f"from {earliest} to {latest}"})
+                         "where": breakdown_words(row, x_unit)})
     analytic = breakdown.get("phase_approximation") or []
     mapped = [float(v) for v in (y.get("values") or [])]
     # the rows at the mapped values of the second parameter (the ones the terminal and the FDTD

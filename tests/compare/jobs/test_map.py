@@ -21,7 +21,6 @@ import pytest
 from hornproof.analytic.predict import predict
 from hornproof.compare.case.casefile import load_case
 from hornproof.compare.jobs.map import run_map
-from hornproof.compare.numerics.map_breakdown import BELOW_RANGE, breakdown_interval, first_crossing
 from hornproof.compare.output.map_json import MAP_SCHEMA, read_map_json
 from hornproof.errors import InputError, RunError
 
@@ -74,7 +73,8 @@ class FakeSolver:
         value = exact - 0.1 * (angle / 10) ** 2
         return {"directivity": [value], "uncertainty": [0.05], "directivity_per_grid": [[value]] * len(ladder),
                 "cells_per_wavelength": list(ladder), "seconds": [1.0] * len(ladder),
-                "convergence_status": ["monotone"]}
+                "convergence_status": ["monotone"], "confident_uncertainty": [0.05],
+                "disagreement_bound": [0.05]}
 
 
 def quiet(message):
@@ -134,7 +134,7 @@ def test_map_with_a_fake_solver_reports_errors_breakdowns_and_a_failed_point(tmp
         assert p["total_error"] == pytest.approx(p["phase_approximation_error"] + p["aperture_model_error"])
     # aperture-model error 0.225 at 15 deg, 2.025 at 45 deg (30 failed): the interval lies between
     for row in doc["breakdown"]["aperture_model"]:
-        assert 15 < row["earliest"] <= row["latest"] < 45
+        assert row["status"] == "breaks" and 15 < row["earliest"] <= row["latest"] < 45
     doc_again = run_map(case, tmp_path / "out", log=quiet, runner=FakeSolver())
     assert doc_again["solver"]["points_reused"] == 4 and doc_again["solver"]["points_computed"] == 2
     for stem in ("map_aperture_model_error", "map_total_error", "map_phase_approximation_error"):
@@ -172,24 +172,6 @@ def test_a_map_beyond_its_budget_is_refused_before_running(tmp_path):
     assert not (tmp_path / "out").exists()
     run_map(case, tmp_path / "out", log=quiet, runner=solver, budget_hours=1e-5, force=True)
     assert solver.calls == 6
-
-
-def test_first_crossing_interpolates_the_margin():
-    # hand computation: margin -1 at 10, +1 at 20 -> zero at 15
-    assert first_crossing([10, 20, 30], [-1, 1, 2]) == pytest.approx(15)
-    assert first_crossing([30, 10, 20], [2, -1, 1]) == pytest.approx(15)  # any order
-    assert first_crossing([10, 20], [0.5, 1]) == BELOW_RANGE
-    assert first_crossing([10, 20], [-1, -0.1]) is None
-    assert first_crossing([10, 20, 30], [-1, np.nan, 3]) == pytest.approx(15)  # NaN skipped
-
-
-def test_breakdown_interval_widens_with_the_uncertainty():
-    x, e = [10, 20, 30], [0.1, 0.3, 0.5]
-    assert breakdown_interval(x, e, 0.0, 0.3) == (pytest.approx(20), pytest.approx(20))
-    earliest, latest = breakdown_interval(x, e, 0.05, 0.3)
-    assert earliest == pytest.approx(17.5) and latest == pytest.approx(22.5)
-    with pytest.raises(ValueError, match="uncertainties"):
-        breakdown_interval(x, e, -0.1, 0.3)
 
 
 @pytest.mark.fullwave
