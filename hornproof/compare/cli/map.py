@@ -10,7 +10,7 @@ from ..jobs.map_estimate import DEFAULT_BUDGET_HOURS
 from ..jobs.messages import is_writer, say
 from ..output.folders import resumable_output_folder
 from ..output.terminal import emit_result, safety_lines
-from ..report.format import MISSING_VALUE, breakdown_words
+from ..report.format import MISSING_VALUE, breakdown_words, crossing_text
 
 
 def budget_hours(text):
@@ -34,14 +34,6 @@ def setup_arguments(parser):
     parser.add_argument("--force", action="store_true",
                         help="run beyond the budget and the memory check")
     parser.add_argument("--json", action="store_true", help="print map.json on standard output")
-
-
-def _crossing(value, unit):
-    if value is None:
-        return "not within the map"
-    if value == "below range":
-        return "at or before the first value"
-    return f"{value:.3g} {unit}"
 
 
 def format_map(document):
@@ -70,7 +62,7 @@ def format_map(document):
     phase = document["breakdown"]["phase_approximation"]
     for row in (phase[0], phase[-1]) if phase else ():
         lines.append(f"  breakdown of the phase approximation (analytic) at {y['label'].lower()} "
-                     f"{row['y']:.3g} {y['unit']}: {_crossing(row['at'], x['unit'])}")
+                     f"{row['y']:.3g} {y['unit']}: {crossing_text(row['at'], x['unit'])}")
     lines.append(safety_lines())
     return "\n".join(lines)
 

@@ -214,3 +214,13 @@ def breakdown_words(interval, unit, decimals=1):
     if earliest is None:
         return f"unresolved: {interval.get('reason') or 'no usable point'}"
     return f"unresolved: may break from {_edge_text(earliest, unit, decimals)} on; {interval.get('reason', '')}".rstrip("; ")
+
+
+def crossing_text(value, unit, decimals=1, where="the map"):
+    """One end of a breakdown (a crossing of the tolerance) in words: a value, "at or before the
+    first value" or "not within <where>"."""
+    if value is None:
+        return f"not within {where}"
+    if value == "below range":
+        return "at or before the first value"
+    return f"{number(value, decimals)} {unit}"

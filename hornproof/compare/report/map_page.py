@@ -5,22 +5,13 @@ and the page itself (``report.html`` beside ``map.json``; keys in
 from pathlib import Path
 
 from ..output.map_json import MAP_SCHEMA, read_map_json
-from .format import MISSING_VALUE, breakdown_words, number, quantity_rows
+from .format import MISSING_VALUE, breakdown_words, crossing_text, number, quantity_rows
 from .html import write_report
 
 #: the three model errors, as the breakdown table names them
 ERROR_NAMES = {"phase_approximation": "Phase approximation (closed form vs exact phase)",
                "aperture_model": "Aperture model (exact phase vs FDTD)",
                "total": "Closed form vs FDTD (total)"}
-
-
-def crossing_text(value, unit):
-    """One end of a breakdown interval in words."""
-    if value is None:
-        return "not within the map"
-    if value == "below range":
-        return "at or before the first value"
-    return f"{number(value, 1)} {unit}"
 
 
 def breakdown_rows(document):

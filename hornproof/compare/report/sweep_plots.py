@@ -36,6 +36,30 @@ def write_sweep_plots(folder, document):
         plot_principal_plane_parting(folder / "aperture_error_3d_vs_2d", document)
 
 
+def _draw_tolerance(ax, tolerance):
+    """The ± tolerance as two horizontal lines (one legend entry)."""
+    if tolerance is None:
+        return
+    for sign in (1, -1):
+        ax.axhline(sign * float(tolerance), color=TOLERANCE_COLOUR, linestyle="-.", linewidth=1.1,
+                   label=f"Tolerance ± {float(tolerance):g} dB" if sign > 0 else None)
+
+
+def _draw_points(ax, x, y, u, confident, colour, *, markersize, dash_unconfident=False):
+    """FDTD points with their uncertainty bars: filled where the uncertainty is confident, hollow
+    where it is not (and, with ``dash_unconfident``, its bar dashed). Returns the confident mask."""
+    sure = np.isfinite(confident) if confident is not None else np.zeros(x.shape, bool)
+    if u is not None and np.any(np.isfinite(u)):
+        for mask, style in ((sure, "-"), (~sure, "--" if dash_unconfident else "-")):
+            bars = ax.errorbar(x[mask], y[mask], yerr=np.where(np.isfinite(u), u, 0.0)[mask], fmt="none",
+                               ecolor=colour, capsize=3, linewidth=1)
+            for line in bars[2]:
+                line.set_linestyle(style)
+    ax.plot(x[sure], y[sure], "o", color=colour, markersize=markersize)
+    ax.plot(x[~sure], y[~sure], "o", markerfacecolor="white", markeredgecolor=colour, markersize=markersize)
+    return sure
+
+
 def _draw_interval(ax, interval, colour, label, x_range):
     """Shade a breakdown interval: solid from its earliest to its latest edge; hatched from the
     earliest edge to the end of the sweep when unresolved ("below range" = the first value)."""
@@ -80,21 +104,12 @@ def plot_error_vs_parameter(path_stem, document):
             ax.plot(x, e, "o", color=colour, markersize=3.5)
         else:
             ax.plot(x, e, style, color=colour, linewidth=1.4, label=label)
-            u = floats(uncertainties.get(key))
-            sure = np.isfinite(confident) if confident is not None else np.zeros(x.shape, bool)
-            ax.errorbar(x, e, yerr=np.where(np.isfinite(u), u, 0.0), fmt="none", ecolor=colour, capsize=3,
-                        linewidth=1)
-            ax.plot(x[sure], e[sure], "o", color=colour, markersize=5)
-            ax.plot(x[~sure], e[~sure], "o", markerfacecolor="white", markeredgecolor=colour, markersize=5)
+            _draw_points(ax, x, e, floats(uncertainties.get(key)), confident, colour, markersize=5)
         interval = (document.get("breakdown") or {}).get(key)
         words = breakdown_words(interval, unit)
         _draw_interval(ax, interval, colour, f"Breakdown, {label.split(' (')[0].lower()}: {words}",
                        (np.nanmin(x), np.nanmax(x)))
-    tolerance = document.get("tolerance")
-    if tolerance is not None:
-        for sign in (1, -1):
-            ax.axhline(sign * float(tolerance), color=TOLERANCE_COLOUR, linestyle="-.", linewidth=1.1,
-                       label=f"Tolerance ± {float(tolerance):g} dB" if sign > 0 else None)
+    _draw_tolerance(ax, document.get("tolerance"))
     ax.axhline(0.0, color="#bdbdbd", linewidth=0.8)
     if confident is not None and np.any(~np.isfinite(confident)):
         ax.plot([], [], "o", markerfacecolor="white", markeredgecolor="#555555",
@@ -125,17 +140,9 @@ def plot_directivity_vs_parameter(path_stem, document):
             continue
         colour = plots.MODEL_COLOURS[name]
         ax.plot(x, y, "-", color=colour, label=plots.MODEL_LABELS[name])
-        u = floats(document.get("fdtd_uncertainty"))
         confident = floats(document.get("fdtd_confident_uncertainty"))
-        sure = np.isfinite(confident) if confident is not None else np.zeros(x.shape, bool)
-        if u is not None and np.any(np.isfinite(u)):
-            for mask, style in ((sure, "-"), (~sure, "--")):  # dashed: not a confident uncertainty
-                bars = ax.errorbar(x[mask], y[mask], yerr=np.where(np.isfinite(u), u, 0)[mask], fmt="none",
-                                   ecolor=colour, capsize=3, linewidth=1)
-                for line in bars[2]:
-                    line.set_linestyle(style)
-        ax.plot(x[sure], y[sure], "o", color=colour, markersize=4.5)
-        ax.plot(x[~sure], y[~sure], "o", markerfacecolor="white", markeredgecolor=colour, markersize=4.5)
+        sure = _draw_points(ax, x, y, floats(document.get("fdtd_uncertainty")), confident, colour, markersize=4.5,
+                            dash_unconfident=True)
         if np.any(~sure):
             ax.plot([], [], "o", markerfacecolor="white", markeredgecolor=colour,
                     label="Hollow, dashed bar: no confident uncertainty (the ladder's bound or spread)")
@@ -170,11 +177,7 @@ def plot_principal_plane_parting(path_stem, document):
         u = floats(block["uncertainties"]["aperture_model"])
         ax.errorbar(x, e, yerr=np.where(np.isfinite(u), u, 0.0), fmt="-o", color=colour, capsize=3,
                     markersize=4, linewidth=1.3, label=f"Aperture-model error, {label}")
-    tolerance = document.get("tolerance")
-    if tolerance is not None:
-        for sign in (1, -1):
-            ax.axhline(sign * float(tolerance), color=TOLERANCE_COLOUR, linestyle="-.", linewidth=1.1,
-                       label=f"Tolerance ± {float(tolerance):g} dB" if sign > 0 else None)
+    _draw_tolerance(ax, document.get("tolerance"))
     parted = document.get("parting") or {}
     _draw_interval(ax, parted.get("interval"), "#8a5a9e",
                    "Where 3D and 2D part: " + breakdown_words(parted.get("interval"), p["unit"]).replace(
