@@ -42,7 +42,7 @@ from ...sim import run as fdtd_run
 from ...sim.grid_fit import fit_ladder, flared_plane
 from ...sim.solver import meep_version
 from ...version import build_version
-from ..numerics.confidence import confident_uncertainty, disagreement_bound
+from ..numerics.confidence import with_outside_terms
 from ..numerics.convergence import grid_convergence
 from ..numerics.figures import directivity_key
 from ..numerics.power_balance import power_balance_uncertainty_db, root_sum_square
@@ -161,10 +161,9 @@ def run_point(horn, frequencies, settings, ladder, force):
         # verify's rules (numerics.confidence), each with the same non-ladder terms
         extra = np.hypot(power_balance_uncertainty_db(point["power_balance_error"]),
                          np.asarray([r or 0.0 for r in (residual or [0.0] * values.shape[1])], dtype=float))
-        point["confident_uncertainty"] = [None if c is None else float(np.hypot(c, x)) for c, x in
-                                          zip((confident_uncertainty(e.to_dict())[0] for e in found), extra)]
-        point["disagreement_bound"] = [None if b is None else float(np.hypot(b, x)) for b, x in
-                                       zip((disagreement_bound(e.to_dict()) for e in found), extra)]
+        judged = [with_outside_terms(e.to_dict(), x) for e, x in zip(found, extra)]
+        point["confident_uncertainty"] = [c for c, _ in judged]
+        point["disagreement_bound"] = [b for _, b in judged]
     else:
         point["uncertainty"] = [np.nan] * values.shape[1]
         point["convergence_status"] = ["single"] * values.shape[1]

@@ -107,6 +107,12 @@ def _number(value):
     return float("nan") if value is None else float(value)
 
 
+def _at(figures, key, index):
+    """``figures[key][index]``, or None when the point's figures have no such list."""
+    values = figures.get(key)
+    return values[index] if values else None
+
+
 def fill_fdtd(point, outcome, centre):
     """The FDTD figures of ``point`` at the band centre from its pool outcome (NaN for a failed
     point; ``cached`` None then)."""
@@ -117,10 +123,10 @@ def fill_fdtd(point, outcome, centre):
     figures = outcome.figures
     point.fdtd = _number(figures["directivity"][centre])
     point.fdtd_uncertainty = _number(figures["uncertainty"][centre])
-    point.fdtd_confident = _number((figures.get("confident_uncertainty") or [None] * (centre + 1))[centre])
-    point.fdtd_bound = _number((figures.get("disagreement_bound") or [None] * (centre + 1))[centre])
-    point.ladder = (figures.get("ladder") or [None] * (centre + 1))[centre]
-    point.reason = (figures.get("uncertainty_reason") or [None] * (centre + 1))[centre]
+    point.fdtd_confident = _number(_at(figures, "confident_uncertainty", centre))
+    point.fdtd_bound = _number(_at(figures, "disagreement_bound", centre))
+    point.ladder = _at(figures, "ladder", centre)
+    point.reason = _at(figures, "uncertainty_reason", centre)
     point.seconds = sum(s or 0 for s in figures.get("seconds", []))
     point.details = {key: figures.get(key) for key in ("cells_per_wavelength", "seconds", "verdict",
                                                         "worst_size_residual_percent", "wall_thickness_modelled_mm",

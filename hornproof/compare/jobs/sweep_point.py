@@ -18,14 +18,12 @@ from ...hashing import content_sha256
 from ...sim.grid_fit import default_ladder, flared_plane
 from ...sim.solver import meep_version
 from ...version import build_version
-from ..numerics.confidence import confident_uncertainty, disagreement_bound, ladder_health
+from ..numerics.confidence import confident_uncertainty, ladder_health, with_outside_terms
 from ..numerics.figures import directivity_key
 from ..output.json_document import jsonable
 from .messages import say
+from .point_pool import POINT_KEY_LENGTH
 from .verify import evaluate_case, non_ladder_uncertainty
-
-#: hex digits of a sweep point's content hash (its cache file name)
-POINT_KEY_LENGTH = 20
 
 
 def point_ladder(spec, horn, frequencies, dims):
@@ -59,7 +57,7 @@ def point_definition(pcase):
 
 
 def point_key(pcase):
-    """Content hash of one sweep point (its cache file name)."""
+    """Content hash of one sweep point: the name of its file in the point pool's cache."""
     return content_sha256(point_definition(pcase), POINT_KEY_LENGTH)
 
 
@@ -72,10 +70,10 @@ def directivity_uncertainties(estimates, extra):
     uncertainty root-sum-square with the non-ladder part ``extra`` (as ``verdict.judge``)."""
     rows = []
     for estimate, more in zip(estimates, extra):
-        confident, reason = confident_uncertainty(estimate)
         shown = None if estimate is None else estimate.get("uncertainty")
-        rows.append((_hypot(shown, more), _hypot(confident, more), _hypot(disagreement_bound(estimate), more),
-                     ladder_health(estimate), reason))
+        confident, bound = with_outside_terms(estimate, more)
+        rows.append((_hypot(shown, more), confident, bound, ladder_health(estimate),
+                     confident_uncertainty(estimate)[1]))
     return rows
 
 

@@ -146,6 +146,18 @@ def disagreement_bound(estimate):
     return None
 
 
+def with_outside_terms(estimate, extra):
+    """(confident uncertainty, disagreement bound) of ``estimate``, each combined root-sum-square
+    with ``extra`` — uncertainty from outside the ladder (power balance, grid-fit residual), as
+    :func:`hornproof.compare.numerics.verdict.judge` combines them; None stays None (an outside
+    term cannot make an unconfident ladder confident)."""
+    extra = 0.0 if extra is None or not math.isfinite(float(extra)) else abs(float(extra))
+    confident, _ = confident_uncertainty(estimate)
+    bound = disagreement_bound(estimate)
+    return (None if confident is None else math.hypot(confident, extra),
+            None if bound is None else math.hypot(bound, extra))
+
+
 #: the short ladder label of the tables ("ladder" column): status -> words
 LADDER_LABELS = {"monotonic": "monotone", "oscillatory": "oscillatory", "divergent": "divergent",
                  "converged": "converged", "two-grid": "2 rungs", "single": "1 rung"}

@@ -47,7 +47,7 @@ import math
 
 import numpy as np
 
-from .confidence import confident_uncertainty, disagreement_bound, ladder_health
+from .confidence import confident_uncertainty, ladder_health, with_outside_terms
 from .figures import METRICS
 
 VERDICTS = ("agrees", "disagrees", "unresolved", "missing")
@@ -146,11 +146,9 @@ def judge(difference, tolerance, estimate, *, limit=False, extra=0.0):
         :func:`~hornproof.compare.numerics.confidence.ladder_health`); ``reason`` (why the
         uncertainty is or is not confident).
     """
-    confident, reason = confident_uncertainty(estimate)
-    bound = disagreement_bound(estimate)
+    _, reason = confident_uncertainty(estimate)
+    confident, bound = with_outside_terms(estimate, extra)
     extra = 0.0 if extra is None or not math.isfinite(float(extra)) else abs(float(extra))
-    confident = None if confident is None else math.hypot(confident, extra)
-    bound = None if bound is None else math.hypot(bound, extra)
     u = math.nan if confident is None else confident
     b = math.nan if bound is None else bound
     d = math.nan if difference is None else float(difference)
