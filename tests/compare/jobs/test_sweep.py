@@ -98,11 +98,13 @@ def test_fdtd_sweep_curve_is_smooth_and_follows_the_models(tmp_path):
 
 @pytest.mark.fullwave
 def test_killed_sweep_recomputes_nothing_finished(tmp_path):
-    case = _case(tmp_path, values="[10, 15, 20, 25]", cells=10)
+    # eight points on a three-rung ladder (about a second each): long enough to be killed mid-way
+    # on a fast machine (with one 10-cell rung per point the whole sweep once ended between polls)
+    case = _case(tmp_path, values="[10, 15, 20, 25, 30, 35, 40, 45]", cells=10)
     out = tmp_path / "out"
     env = dict(os.environ, MPLBACKEND="Agg")
     proc = subprocess.Popen([sys.executable, "-m", "hornproof.compare.cli.main", "sweep", str(case.path),
-                             "--out", str(out), "--cells-per-wavelength", "10"],
+                             "--out", str(out), "--cells-per-wavelength", "10,14,20"],
                             stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL, env=env, cwd=ROOT)
     deadline = time.monotonic() + 240
     points = out / "points"
@@ -117,12 +119,12 @@ def test_killed_sweep_recomputes_nothing_finished(tmp_path):
     proc.wait(timeout=60)
     assert proc.returncode == 143  # terminated, not finished
     finished = len(list(points.glob("*.json")))
-    assert 1 <= finished < 4
+    assert 1 <= finished < 8
     assert not list(points.glob("*.tmp*")) and not list(points.glob(".*"))  # nothing half-written
-    doc = run_sweep(case, out, ladder=[10], log=lambda m: None)
+    doc = run_sweep(case, out, ladder=[10, 14, 20], log=lambda m: None)
     assert doc["solver"]["points_reused"] == finished
-    assert doc["solver"]["points_computed"] == 4 - finished
-    again = run_sweep(case, out, ladder=[10], log=lambda m: None)
+    assert doc["solver"]["points_computed"] == 8 - finished
+    again = run_sweep(case, out, ladder=[10, 14, 20], log=lambda m: None)
     assert again["solver"]["points_computed"] == 0
     assert again["models"]["fdtd"] == doc["models"]["fdtd"]
 
