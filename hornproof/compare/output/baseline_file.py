@@ -220,6 +220,24 @@ def write_baseline(path, baseline):
     write_text_atomic(path, text)
 
 
+def _stored_figure(name, entry, n):
+    """One stored figure of a baseline as a FigureRecord; ValueError naming the key when it is
+    malformed or its uncertainty is beyond ``limits.MAX_BASELINE_UNCERTAINTY`` for its unit."""
+    if not isinstance(entry, dict):
+        raise ValueError(f"figures.{name}: expected a table with values and uncertainty")
+    values = _number_list(entry.get("values"), n, f"figures.{name}.values")
+    u = _number_list(entry.get("uncertainty"), n, f"figures.{name}.uncertainty")
+    if any(x is not None and x < 0 for x in u):
+        raise ValueError(f"figures.{name}.uncertainty: negative uncertainty")
+    unit = figure_unit(name)
+    bound = MAX_BASELINE_UNCERTAINTY.get("deg" if unit.startswith("deg") else "dB" if "dB" in unit else "")
+    if bound is not None and any(x is not None and x > bound for x in u):
+        raise ValueError(f"figures.{name}.uncertainty: {max(x for x in u if x is not None):g} {unit} "
+                         f"is beyond {bound:g} {unit}: an uncertainty that large would call any change "
+                         "noise; rerun 'hornproof regress --update' to record a real one")
+    return FigureRecord(values=values, uncertainty=u)
+
+
 def read_baseline(path, expected_case=None):
     """Read a baseline file; None when it does not exist.
 
@@ -267,21 +285,7 @@ def read_baseline(path, expected_case=None):
         raw = data.get("figures")
         if not isinstance(raw, dict) or not raw:
             raise ValueError("figures: missing or empty")
-        figures = {}
-        for name, entry in raw.items():
-            if not isinstance(entry, dict):
-                raise ValueError(f"figures.{name}: expected a table with values and uncertainty")
-            values = _number_list(entry.get("values"), len(frequencies), f"figures.{name}.values")
-            u = _number_list(entry.get("uncertainty"), len(frequencies), f"figures.{name}.uncertainty")
-            if any(x is not None and x < 0 for x in u):
-                raise ValueError(f"figures.{name}.uncertainty: negative uncertainty")
-            unit = FIGURE_UNITS.get(name, "")
-            bound = MAX_BASELINE_UNCERTAINTY.get("deg" if unit.startswith("deg") else "dB" if "dB" in unit else "")
-            if bound is not None and any(x is not None and x > bound for x in u):
-                raise ValueError(f"figures.{name}.uncertainty: {max(x for x in u if x is not None):g} {unit} "
-                                 f"is beyond {bound:g} {unit}: an uncertainty that large would call any change "
-                                 "noise; rerun 'hornproof regress --update' to record a real one")
-            figures[name] = FigureRecord(values=values, uncertainty=u)
+        figures = {name: _stored_figure(name, entry, len(frequencies)) for name, entry in raw.items()}
         for key in ("solver", "settings"):
             if not isinstance(data.get(key, {}), dict):
                 raise ValueError(f"{key}: expected a table")
