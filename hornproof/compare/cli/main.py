@@ -50,7 +50,7 @@ HELP = {
     "predict": "closed-form and exact-phase models only (instant)",
     "simulate": "FDTD model only (Meep); writes fields.h5, result.json, s11.s1p",
     "verify": "the main job: models + FDTD ladder, compared, with verdict and report",
-    "sweep": "model error vs one horn parameter; breakdown threshold",
+    "sweep": "model errors vs one horn parameter (3D unless told); breakdown intervals, optima",
     "map": "model error over two horn parameters; breakdown intervals (cost estimated first)",
     "regress": "nightly suite against stored baselines (JUnit XML)",
     "design": "optimum horn sizing (analytic)",
