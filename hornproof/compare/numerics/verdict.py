@@ -1,4 +1,4 @@
-"""Verdicts on model differences, the split of the error into its causes (breakdown intervals: numerics/breakdown.py).
+"""Verdicts on model differences and the split of the error into its causes (breakdown intervals are in numerics/breakdown.py).
 
 Verdict rule (per metric, per frequency), with d the difference, u ≥ 0 its numerical
 uncertainty (figure units, e.g. the GCI of the FDTD value) and t the tolerance:

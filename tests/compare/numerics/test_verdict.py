@@ -1,4 +1,4 @@
-"""Tests of verdicts, the error split, on cases worked by hand.
+"""Tests of verdicts and the error split, on cases worked by hand.
 
 The verdict rule is hornproof's (module docstring of hornproof.compare.numerics.verdict), in the spirit
 of ASME V&V 20-2009: a comparison error is judged together with its numerical uncertainty.
