@@ -1,4 +1,6 @@
-"""Verdicts on model differences and the split of the error into its causes (breakdown intervals are in numerics/breakdown.py).
+"""Verdicts on model differences and the split of the error into its causes.
+
+Breakdown intervals along a sweep are in :mod:`.breakdown`.
 
 Verdict rule (per metric, per frequency), with d the difference, u ≥ 0 its numerical
 uncertainty (figure units, e.g. the GCI of the FDTD value) and t the tolerance:
