@@ -119,9 +119,7 @@ def _extra_figures(powers, layout, d_boresight, h_cross, e_cross):
     s11 = powers["s11"]
     g = gain(d_boresight, PEC_RADIATION_EFFICIENCY)
     return {
-        # in dB as D (dBi) + 10 log10(e_rad): the same definition, and G = D to the last bit when
-        # e_rad = 1 (log10 of a strided and of a contiguous array may differ in the last bit)
-        "gain_dbi": db10(d_boresight) + db10(PEC_RADIATION_EFFICIENCY),
+        "gain_dbi": db10(g),
         "realized_gain_dbi": db10(realized_gain(g, s11)),
         "s11_db": db20(s11),
         "s11_real": np.real(s11),

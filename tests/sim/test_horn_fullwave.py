@@ -164,8 +164,10 @@ def test_h_sectoral_2d_model_matches_line_source():
     assert result.directivity_dbi == pytest.approx(expected, abs=0.3)
     assert np.all(np.isnan(result.e_plane_dbi))
     assert np.all(np.abs(result.extra["power_balance_error"]) < 0.02)
-    # 2D gains per unit length follow the same definitions: realized ≤ G = D (PEC walls)
-    assert np.array_equal(result.extra["gain_dbi"], result.directivity_dbi)
+    # 2D gains per unit length follow the same definitions: realized ≤ G = D (PEC walls). To
+    # 1e-9 dB, not bit for bit: in full-suite runs from a fresh clone the two differed in the
+    # last bit (cause not found; both come from the same boresight directivity times 1)
+    np.testing.assert_allclose(result.extra["gain_dbi"], result.directivity_dbi, rtol=0, atol=1e-9)
     assert np.all(result.extra["realized_gain_dbi"] <= result.extra["gain_dbi"])
 
 
